@@ -1,0 +1,19 @@
+package drivers
+
+import "errors"
+
+// Named errors of the driver contract. Check them with errors.Is; the gRPC
+// shims carry them across the process boundary.
+var (
+	// ErrBadConfig: the configuration was refused before any I/O.
+	ErrBadConfig = errors.New("driver: bad configuration")
+	// ErrNotConfigured: Stream was called before a successful Configure.
+	ErrNotConfigured = errors.New("driver: not configured")
+	// ErrDeviceGone: the device disappeared (cable pulled, port closed).
+	ErrDeviceGone = errors.New("driver: device gone")
+	// ErrPluginDead: the driver process exited or stopped answering; a
+	// dead plugin's gRPC Unavailable becomes this one error.
+	ErrPluginDead = errors.New("driver: plugin process dead")
+	// ErrStreaming: Stream was called while a stream is already running.
+	ErrStreaming = errors.New("driver: already streaming")
+)

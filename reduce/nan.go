@@ -1,0 +1,5 @@
+package reduce
+
+import "math"
+
+var nan = math.NaN()
