@@ -1,0 +1,15 @@
+package daemon
+
+import "errors"
+
+// Named errors of the daemon. Check them with errors.Is.
+var (
+	// ErrBadConfig: the configuration was refused before any I/O.
+	ErrBadConfig = errors.New("bad configuration")
+	// ErrNoChannel: no driver offers a channel the frame needs (force).
+	ErrNoChannel = errors.New("no such channel")
+	// ErrDriverStart: a driver process could not be started or configured.
+	ErrDriverStart = errors.New("driver failed to start")
+	// ErrNotRunning: framectl found no daemon on the control socket.
+	ErrNotRunning = errors.New("framed is not running")
+)
