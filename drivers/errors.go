@@ -17,3 +17,12 @@ var (
 	// ErrStreaming: Stream was called while a stream is already running.
 	ErrStreaming = errors.New("driver: already streaming")
 )
+
+// Named errors of launching driver processes.
+var (
+	// ErrNoChecksum: an external driver binary was to be run without a
+	// configured SHA-256. Only the daemon's own binary runs unchecked.
+	ErrNoChecksum = errors.New("driver: external driver binary has no configured sha256")
+	// ErrChecksumMismatch: the binary on disk is not the one configured.
+	ErrChecksumMismatch = errors.New("driver: driver binary sha256 does not match")
+)

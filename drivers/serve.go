@@ -1,0 +1,38 @@
+package drivers
+
+import (
+	"os"
+
+	"github.com/hashicorp/go-hclog"
+	"github.com/hashicorp/go-plugin"
+	"google.golang.org/grpc"
+)
+
+// maxMessageBytes bounds one gRPC message. A batch of 100 000 samples on
+// four channels is about 4 MB, the gRPC default; the larger limit leaves
+// room for drivers that send big batches rarely.
+const maxMessageBytes = 64 << 20
+
+// Serve runs d as a driver process: it answers the daemon's handshake on
+// stdout and serves d over gRPC until the daemon kills the process. Call it
+// from a driver's main (or from the daemon's own binary in driver mode, see
+// drivers/builtin); it does not return until the host is gone. Started by
+// hand rather than by a host, it prints a short notice and exits with 1.
+func Serve(d Driver) {
+	plugin.Serve(&plugin.ServeConfig{
+		HandshakeConfig: Handshake,
+		Plugins:         PluginMap(d),
+		GRPCServer: func(opts []grpc.ServerOption) *grpc.Server {
+			opts = append(opts, grpc.MaxRecvMsgSize(maxMessageBytes), grpc.MaxSendMsgSize(maxMessageBytes))
+			return grpc.NewServer(opts...)
+		},
+		// The host reads this JSON log from stderr and re-logs it with its
+		// own logger, tagged with the driver's name.
+		Logger: hclog.New(&hclog.LoggerOptions{
+			Name:       "driver",
+			Level:      hclog.Info,
+			Output:     os.Stderr,
+			JSONFormat: true,
+		}),
+	})
+}
