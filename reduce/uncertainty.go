@@ -1,0 +1,63 @@
+package reduce
+
+import "math"
+
+// Uncertainty budget (GUM, expanded with k=2). Channel bias bounds are read
+// from the classes in Options and taken as rectangular (bound / sqrt 3),
+// common practice when only a class is known:
+//   - force: the ISO 7500-1 class as a relative bound;
+//   - extensometer: the ISO 9513 class bound, the larger of class % of the
+//     reading and 3 um x class (from memory);
+//   - dimensions: Options.DimensionUMM per measured dimension, standard;
+//   - the fit: standard error of the slope and, for E, half the spread of E
+//     over the acceptable fit windows (rectangular).
+// Crosshead strain (no extensometer) carries a 5 % relative bound: the
+// load train's stretch left after a compliance correction is rarely known
+// better (common practice).
+
+const kCoverage = 2
+
+var sqrt3 = math.Sqrt(3)
+
+// relUForce is the relative standard uncertainty of a force reading.
+func (w *work) relUForce() float64 { return w.opt.ForceClassPct / 100 / sqrt3 }
+
+// relUStress is the relative standard uncertainty of a stress F/S0.
+func (w *work) relUStress() float64 {
+	return math.Hypot(w.relUForce(), w.sp.relUS0(w.opt.DimensionUMM))
+}
+
+// uStrain is the standard uncertainty of a strain reading x (a fraction).
+func (w *work) uStrain(x float64) float64 {
+	if w.source == fromCrosshead {
+		return math.Max(0.05*math.Abs(x), 0.02/w.leMM) / sqrt3
+	}
+	c := w.opt.ExtensometerClassPct
+	bound := math.Max(c/100*math.Abs(x), 0.003*c/w.leMM)
+	return bound / sqrt3
+}
+
+// relUStrainScale is the relative standard uncertainty of strain as a
+// scale (what E sees): the class's relative bound.
+func (w *work) relUStrainScale() float64 {
+	if w.source == fromCrosshead {
+		return 0.05 / sqrt3
+	}
+	return w.opt.ExtensometerClassPct / 100 / sqrt3
+}
+
+// uE is the standard uncertainty of E in MPa.
+func (w *work) uE() float64 {
+	e := w.fit.slope
+	rel := math.Sqrt(math.Pow(w.relUStress(), 2) + math.Pow(w.relUStrainScale(), 2) +
+		math.Pow(w.fit.seSlope/e, 2) + math.Pow(w.eSpreadMPa/e/sqrt3, 2))
+	return rel * e
+}
+
+func expanded(u float64) *float64 {
+	if !finite(u) || u < 0 {
+		return nil
+	}
+	v := kCoverage * u
+	return &v
+}
