@@ -1,0 +1,231 @@
+package detect
+
+import (
+	"math"
+
+	"framed/reduce"
+)
+
+// settleBlocks is how many sub-blocks the settle window is cut into: the
+// window slides by a quarter of SettleMinS, so a settled reading is found
+// at most 1.25 SettleMinS after it settled, with O(1) work per sample.
+const settleBlocks = 4
+
+// block holds the line sums of one sub-block of the settle window.
+type block struct {
+	f, ext, xh linsum
+	startS     float64
+}
+
+// runState is what the detector tracks while a test runs.
+type runState struct {
+	startS       float64
+	baseN        float64
+	sigmaN       float64
+	unloadLevelN float64
+	holdBandN    float64
+	setThrMM     float64
+	extRef       float64
+	xhRef        float64
+	peakN        float64
+
+	phase phase
+
+	// settle window
+	blockLenS  float64
+	ring       [settleBlocks]block
+	ringN      int
+	ringAt     int
+	cur        block
+	bandRefN   float64
+	bandStartS float64
+	prevS      float64 // the last filtered sample's time
+
+	// following a hold or an unloaded rest
+	refN        float64
+	outN        int
+	lastInS     float64
+	holdIdx     int
+	follF       linsum
+	follExt     linsum
+	restStartS  float64
+	cyclePeakN  float64
+	cycleHoldN  float64
+	cycleHasHld bool
+}
+
+// restartSettle empties the settle window: the load has just moved.
+func (d *Detector) restartSettle(fs sample) {
+	r := &d.run
+	r.phase = seeking
+	r.ringN, r.ringAt = 0, 0
+	r.cur = block{startS: fs.t}
+	r.bandRefN, r.bandStartS = fs.f, fs.t
+	r.prevS = fs.t
+}
+
+// follow runs the hold and unload logic on one filtered sample.
+func (d *Detector) follow(fs sample, rawT float64) {
+	r := &d.run
+	if fs.f > r.cyclePeakN {
+		r.cyclePeakN = fs.f
+	}
+	gap := fs.t-r.prevS > math.Max(d.cfg.SettleMinS, 10*d.dtS)
+	r.prevS = fs.t
+	if r.phase == seeking {
+		if gap {
+			// A hole in the record: what came before says nothing about
+			// whether the reading after it has settled.
+			d.restartSettle(fs)
+		}
+		d.seek(fs, rawT)
+		return
+	}
+	if math.Abs(fs.f-r.refN) > r.holdBandN {
+		// Two readings in a row outside the band: the load moved.
+		r.outN++
+		if r.outN >= 2 {
+			if r.phase == holding {
+				d.closeHold(r.lastInS)
+			}
+			d.restartSettle(fs)
+		}
+		return
+	}
+	r.outN = 0
+	a := d.dtS / followTauS
+	if a > 1 {
+		a = 1
+	}
+	r.refN += a * (fs.f - r.refN)
+	r.lastInS = fs.t
+	r.follF.add(fs.t, fs.f)
+	if finite(fs.ext) {
+		r.follExt.add(fs.t, fs.ext)
+	}
+	if r.phase == resting && fs.t-r.restStartS >= d.cfg.EndHoldS {
+		d.emit(reduce.Event{Kind: reduce.EventEnd, TimeS: fs.t}, rawT)
+		d.state = Ended
+	}
+}
+
+// followTauS is how fast a hold's reference follows a slow relaxation.
+const followTauS = 2
+
+// seek feeds the settle window and reports a hold or an unload once the
+// reading has settled.
+func (d *Detector) seek(fs sample, rawT float64) {
+	r := &d.run
+	if math.Abs(fs.f-r.bandRefN) > r.holdBandN {
+		r.bandRefN, r.bandStartS = fs.f, fs.t
+	}
+	r.cur.f.add(fs.t, fs.f)
+	if finite(fs.ext) {
+		r.cur.ext.add(fs.t, fs.ext)
+	}
+	if finite(fs.xh) {
+		r.cur.xh.add(fs.t, fs.xh)
+	}
+	if fs.t-r.cur.startS < r.blockLenS {
+		return
+	}
+	r.ring[r.ringAt] = r.cur
+	r.ringAt = (r.ringAt + 1) % settleBlocks
+	if r.ringN < settleBlocks {
+		r.ringN++
+	}
+	r.cur = block{startS: fs.t}
+	if r.ringN < settleBlocks {
+		return
+	}
+	var w block
+	for i := 0; i < settleBlocks; i++ {
+		b := &r.ring[(r.ringAt+i)%settleBlocks]
+		w.f.merge(&b.f)
+		w.ext.merge(&b.ext)
+		w.xh.merge(&b.xh)
+	}
+	if !d.settled(&w) {
+		return
+	}
+	d.onSettled(&w, fs, rawT)
+}
+
+// settled tells whether the window's force scatters about a line by no
+// more than the noise, drifts by less than the hold band, and the
+// crosshead (when read) stands still.
+func (d *Detector) settled(w *block) bool {
+	r := &d.run
+	if w.f.n < 8 {
+		return false
+	}
+	if w.f.residStd() > d.cfg.SettleNoiseK*r.sigmaN {
+		return false
+	}
+	if math.Abs(w.f.slope())*d.cfg.SettleMinS > r.holdBandN {
+		return false
+	}
+	if w.xh.n >= w.f.n/2 && math.Abs(w.xh.slope()) > d.cfg.HoldCrossheadMaxMMPerS {
+		return false
+	}
+	return true
+}
+
+// onSettled classes a settled reading as a hold or an unloaded rest.
+func (d *Detector) onSettled(w *block, fs sample, rawT float64) {
+	r := &d.run
+	level := w.f.mean()
+	extMM, xhMM := math.NaN(), math.NaN()
+	if w.ext.n >= w.f.n/2 {
+		extMM = w.ext.mean()
+	}
+	if w.xh.n >= w.f.n/2 {
+		xhMM = w.xh.mean()
+	}
+	r.refN, r.outN, r.lastInS = level, 0, fs.t
+	r.follF, r.follExt = w.f, w.ext
+	if level-r.unloadLevelN <= r.holdBandN {
+		r.phase = resting
+		r.restStartS = r.bandStartS
+		if r.cyclePeakN-r.unloadLevelN > 2*r.holdBandN {
+			d.unload(level, extMM, xhMM, fs.t, rawT)
+		}
+		r.cyclePeakN, r.cycleHasHld = level, false
+		return
+	}
+	r.phase = holding
+	h := reduce.Hold{StartS: r.bandStartS, SettledS: fs.t, EndS: fs.t, ForceN: level, ExtensionMM: extMM}
+	if !finite(extMM) {
+		h.ExtensionMM = 0
+		d.flag(FlagHoldExtensionUnknown)
+	}
+	d.holds = append(d.holds, h)
+	r.holdIdx = len(d.holds) - 1
+	if !r.cycleHasHld || level > r.cycleHoldN {
+		r.cycleHoldN, r.cycleHasHld = level, true
+	}
+	e := d.emit(reduce.Event{Kind: reduce.EventHold, TimeS: fs.t, ForceN: fptr(level)}, rawT)
+	hc := h
+	e.Hold = &hc
+}
+
+// closeHold ends the open hold at endS with its creep and relaxation rates.
+func (d *Detector) closeHold(endS float64) {
+	r := &d.run
+	if r.holdIdx < 0 {
+		return
+	}
+	d.finishHold(&d.holds[r.holdIdx], endS)
+	r.holdIdx = -1
+}
+
+func (d *Detector) finishHold(h *reduce.Hold, endS float64) {
+	r := &d.run
+	h.EndS = endS
+	h.RelaxationNPerS = r.follF.slope()
+	if r.follExt.n >= 3 {
+		h.CreepMMPerS = r.follExt.slope()
+	}
+}
+
+func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }

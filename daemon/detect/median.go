@@ -1,0 +1,45 @@
+package detect
+
+// sample is one reading. Ext and Xh are NaN when not read.
+type sample struct {
+	t, f, ext, xh float64
+}
+
+// median3 delays the force by one sample and replaces it by the median of
+// itself and its neighbours, so that a single wild reading can neither
+// start a test nor fake a break. This one-sample delay is the detector's
+// whole look-ahead (LookaheadSamples).
+type median3 struct {
+	n    int
+	a, b sample // the two samples before the newest
+}
+
+// push takes the newest sample and returns the filtered previous one.
+func (m *median3) push(s sample) (sample, bool) {
+	if m.n < 2 {
+		if m.n == 0 {
+			m.b = s
+		} else {
+			m.a, m.b = m.b, s
+		}
+		m.n++
+		return sample{}, false
+	}
+	out := m.b
+	out.f = med(m.a.f, m.b.f, s.f)
+	m.a, m.b = m.b, s
+	return out, true
+}
+
+func med(x, y, z float64) float64 {
+	if x > y {
+		x, y = y, x
+	}
+	if y > z {
+		y = z
+	}
+	if x > y {
+		return x
+	}
+	return y
+}

@@ -1,0 +1,146 @@
+package detect
+
+import (
+	"math"
+
+	"framed/reduce"
+)
+
+// idleStats learns, while no test runs, the force baseline and noise floor
+// and the extension and crosshead at rest, and watches for the start.
+type idleStats struct {
+	n                 int
+	lastF, base, varF float64
+	extN              int
+	lastExt, extRef   float64
+	varExt            float64
+	xhN               int
+	xhRef             float64
+	lastQuietS        float64
+	aboveSinceS       float64
+	aboveN            int
+	haveQuiet         bool
+}
+
+func (s *idleStats) reset() { *s = idleStats{extRef: math.NaN(), xhRef: math.NaN()} }
+
+// idleTauS is the memory of the idle averages: long enough to average the
+// noise, short enough to follow a slow thermal drift of the zero.
+const idleTauS = 2
+
+// learn updates the idle averages with a raw sample. The baseline is only
+// moved by readings near it, so a slow loading ramp cannot drag it along.
+func (s *idleStats) learn(x sample, dtS float64) {
+	s.n++
+	a := 1 / float64(s.n)
+	if w := dtS / idleTauS; a < w {
+		a = w
+	}
+	if s.n == 1 {
+		s.base = x.f
+	} else {
+		d := x.f - s.lastF
+		s.varF += a * (d*d/2 - s.varF)
+		gate := 6 * math.Sqrt(s.varF)
+		if math.Abs(x.f-s.base) <= gate || s.n <= 3 {
+			s.base += a * (x.f - s.base)
+		}
+	}
+	s.lastF = x.f
+	if !math.IsNaN(x.ext) && !math.IsInf(x.ext, 0) {
+		s.extN++
+		ae := 1 / float64(s.extN)
+		if w := dtS / idleTauS; ae < w {
+			ae = w
+		}
+		if s.extN == 1 {
+			s.extRef = x.ext
+		} else {
+			d := x.ext - s.lastExt
+			s.varExt += ae * (d*d/2 - s.varExt)
+			s.extRef += ae * (x.ext - s.extRef)
+		}
+		s.lastExt = x.ext
+	}
+	if !math.IsNaN(x.xh) && !math.IsInf(x.xh, 0) {
+		s.xhN++
+		ax := 1 / float64(s.xhN)
+		if w := dtS / idleTauS; ax < w {
+			ax = w
+		}
+		if s.xhN == 1 {
+			s.xhRef = x.xh
+		} else {
+			s.xhRef += ax * (x.xh - s.xhRef)
+		}
+	}
+}
+
+// sigmaN is the force noise floor: configured, or learnt with a floor.
+func (d *Detector) sigmaN() float64 {
+	if d.cfg.NoiseFloorN > 0 {
+		return d.cfg.NoiseFloorN
+	}
+	return math.Max(math.Sqrt(d.idle.varF), minNoiseFraction*d.cfg.ForceRangeN)
+}
+
+// startThresholdN is how far above the baseline the force must rise.
+func (d *Detector) startThresholdN() float64 {
+	return math.Max(d.cfg.StartFraction*d.cfg.ForceRangeN, d.cfg.StartNoiseK*d.sigmaN())
+}
+
+// watchStart looks for the force standing above the threshold for
+// StartSustainS (and two filtered samples), and dates the start back to
+// the last reading that was still within the noise of the baseline.
+func (d *Detector) watchStart(fs sample, rawT float64) {
+	s := &d.idle
+	sig := d.sigmaN()
+	excess := fs.f - s.base
+	if excess <= 3*sig || !s.haveQuiet {
+		s.lastQuietS = fs.t
+		s.haveQuiet = true
+	}
+	if excess <= d.startThresholdN() {
+		s.aboveN = 0
+		return
+	}
+	if s.aboveN == 0 {
+		s.aboveSinceS = fs.t
+	}
+	s.aboveN++
+	if s.aboveN >= 2 && fs.t-s.aboveSinceS >= d.cfg.StartSustainS {
+		d.begin(fs, rawT)
+	}
+}
+
+// begin freezes what was learnt at idle and starts following the test.
+func (d *Detector) begin(fs sample, rawT float64) {
+	c := &d.cfg
+	s := &d.idle
+	sig := d.sigmaN()
+	r := &d.run
+	*r = runState{
+		baseN:        s.base,
+		sigmaN:       sig,
+		unloadLevelN: s.base + c.HangerN,
+		holdBandN:    math.Max(c.HoldBandFraction*c.ForceRangeN, 8*sig),
+		extRef:       s.extRef,
+		xhRef:        s.xhRef,
+		setThrMM:     c.SetThresholdMM,
+		peakN:        fs.f,
+		cyclePeakN:   fs.f,
+		holdIdx:      -1,
+		blockLenS:    c.SettleMinS / settleBlocks,
+	}
+	if r.setThrMM == 0 {
+		r.setThrMM = math.Max(6*math.Sqrt(s.varExt), minSetThresholdMM)
+	}
+	r.startS = math.Max(s.lastQuietS, fs.t-c.PreTriggerS)
+	if math.Abs(s.base) > c.TareToleranceFraction*c.ForceRangeN+4*sig {
+		d.flag(FlagForceNotTared)
+	}
+	d.state = Running
+	d.brk.reset()
+	d.restartSettle(fs)
+	d.emit(reduce.Event{Kind: reduce.EventStart, TimeS: r.startS}, rawT)
+}
