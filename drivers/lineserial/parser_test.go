@@ -50,16 +50,16 @@ func TestParseKeyValue(t *testing.T) {
 	p := mustParser(t, kvConfig)
 	var s Sample
 	cases := []struct {
-		line       string
-		err        error
-		f, x       float64
+		line        string
+		err         error
+		f, x        float64
 		nan, range_ int
 	}{
 		{line: "t=5 f=-8388 x=10234", f: -8388, x: 10234},
-		{line: "x=1 t=5 f=2", f: 2, x: 1},                       // any key order
-		{line: "  t=5   f=2  x=1  ", f: 2, x: 1},                // runs of spaces
-		{line: "t=5 f=2 x=1 temp=21.5", f: 2, x: 1},             // unknown key skipped
-		{line: "t=5 f=-8388608 x=1", f: -8388608, x: 1},         // 24-bit minimum
+		{line: "x=1 t=5 f=2", f: 2, x: 1},               // any key order
+		{line: "  t=5   f=2  x=1  ", f: 2, x: 1},        // runs of spaces
+		{line: "t=5 f=2 x=1 temp=21.5", f: 2, x: 1},     // unknown key skipped
+		{line: "t=5 f=-8388608 x=1", f: -8388608, x: 1}, // 24-bit minimum
 		{line: "t=5 f=8388608 x=1", f: math.NaN(), x: 1, range_: 1},
 		{line: "t=5 f=NaN x=nan", f: math.NaN(), x: math.NaN(), nan: 2},
 		{line: "t=5 f=2", err: ErrGarbled},
