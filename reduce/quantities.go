@@ -95,7 +95,7 @@ func (w *work) quantities() []Quantity {
 		if w.iRemoved >= 0 && w.iFm > w.iRemoved {
 			src = "crosshead matched to the extensometer at its removal"
 		}
-		uAgt := math.Hypot(w.uStrain(agt), uTop)
+		uAgt := math.Hypot(w.uStrainAt(t.i), uTop)
 		how := fmt.Sprintf("at the force maximum with isolated spikes set down, top flat within noise over %.2f %% strain", 100*t.widthFrac)
 		add("Agt", 100*agt, "%", "total extension at Fm, "+how+", "+src, 100*uAgt)
 		if w.fitOK {
@@ -112,7 +112,7 @@ func (w *work) quantities() []Quantity {
 		if w.iRemoved >= 0 && w.iBreak > w.iRemoved {
 			src = "crosshead matched to the extensometer at its removal"
 		}
-		add("At", 100*xb, "%", "total extension at fracture, "+src, 100*w.uStrain(xb))
+		add("At", 100*xb, "%", "total extension at fracture, "+src, 100*w.uStrainAt(w.iBreak))
 	}
 	if w.sp.LuMM > 0 && w.l0MM > 0 {
 		a := 100 * (w.sp.LuMM - w.l0MM) / w.l0MM
@@ -121,7 +121,7 @@ func (w *work) quantities() []Quantity {
 	} else if w.fitOK && finite(xb) && finite(sb) {
 		w.flag(FlagAFromExtension)
 		a := xb - sb/e
-		add("A", 100*a, "%", "from the extension at fracture less the elastic recovery (stress / E), "+src(w), 100*math.Hypot(w.uStrain(xb), sb/e*uE/e))
+		add("A", 100*a, "%", "from the extension at fracture less the elastic recovery (stress / E), "+src(w), 100*math.Hypot(w.uStrainAt(w.iBreak), sb/e*uE/e))
 	}
 	if su := w.sp.finalSectionMM2(); su > 0 {
 		z := 100 * (w.s0MM2 - su) / w.s0MM2

@@ -122,6 +122,23 @@ func TestReferenceCurves(t *testing.T) {
 				t.Errorf("%s: A %.3f vs reported %.3f (%s)", rc.id, q.Value, want, q.Method)
 			}
 		}
+		// After an extensometer removal, At comes from the crosshead matched
+		// to the extensometer; less the elastic recovery it must agree with
+		// the A the publisher measured from Lu, within the stated U of At.
+		if wantA, ok := rep("A_pct"); ok && hasFlag(res, reduce.FlagExtensometerRemoved) {
+			at, e := get("At"), get("E")
+			var fBreak float64
+			for _, ev := range res.Events {
+				if ev.Kind == reduce.EventBreak && ev.ForceN != nil {
+					fBreak = *ev.ForceN
+				}
+			}
+			s0, _ := rc.sp.CrossSectionMM2()
+			a := at.Value - 100*fBreak/s0/(e.Value*1000)
+			if at.U == nil || !(math.Abs(a-wantA) <= *at.U+0.25) {
+				t.Errorf("%s: At %.2f less recovery %.2f vs reported A %.1f (U %v)", rc.id, at.Value, a, wantA, at.U)
+			}
+		}
 		// Z from Su as defined, 100 (S0 - Su) / S0, and against the reported
 		// Z (S355 rounds Z to 1 %).
 		if su, ok := rep("Su_mm2"); ok {
@@ -170,6 +187,15 @@ func TestReferenceCurves(t *testing.T) {
 	}
 	t.Logf("%d curves; median Rp0.2 dev %.3f %%; median E dev %v; U(E) covers %d/%d",
 		len(cases), median(rpDev), map[string]float64{"42CrMoS4": median(eDev["42CrMoS4"]), "S355": median(eDev["S355"])}, covered, withE)
+}
+
+func hasFlag(res reduce.Result, f string) bool {
+	for _, g := range res.Flags {
+		if g == f {
+			return true
+		}
+	}
+	return false
 }
 
 // spikeAtReportedAg tells whether the force sample where the reported Ag

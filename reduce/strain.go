@@ -33,10 +33,24 @@ func (w *work) buildStrain() {
 			w.iRemoved = last
 			w.flag(FlagExtensometerRemoved)
 			if hasXH && finite(xc(last)) {
+				// Uniform elongation: the extensometer's share of the
+				// crosshead motion as last seen. Past Fm the neck takes all
+				// further elongation, and it lies within Le (else the test
+				// is void), so the crosshead motion counts in full.
 				k := w.matchSlope(last)
-				x0 := xc(last)
+				e := ext[last]
 				for i := last + 1; i < w.n; i++ {
-					w.strain[i] = (ext[last] + k*(xc(i)-x0)) / w.leMM
+					d := xc(i) - xc(i-1)
+					if !finite(d) {
+						w.strain[i] = e / w.leMM
+						continue
+					}
+					if i > w.iFm {
+						e += d
+					} else {
+						e += k * d
+					}
+					w.strain[i] = e / w.leMM
 				}
 			}
 		}
