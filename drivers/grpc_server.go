@@ -71,11 +71,8 @@ func (s *grpcServer) Stream(_ *driverpb.StreamRequest, srv driverpb.Driver_Strea
 	ctx, cancel := context.WithCancel(srv.Context())
 	defer cancel()
 
-	this := &activeStream{ctx: ctx, done: make(chan struct{})}
-	defer close(this.done)
 	s.mu.Lock()
 	prev := s.latest
-	s.latest = this
 	s.mu.Unlock()
 	if prev != nil {
 		prev.waitEnd(ctx)
@@ -85,6 +82,13 @@ func (s *grpcServer) Stream(_ *driverpb.StreamRequest, srv driverpb.Driver_Strea
 	if err != nil {
 		return toStatus(err)
 	}
+	// Only an accepted call becomes the one a later call waits for: a
+	// refused second call must not hide a stream that still runs.
+	this := &activeStream{ctx: ctx, done: make(chan struct{})}
+	defer close(this.done)
+	s.mu.Lock()
+	s.latest = this
+	s.mu.Unlock()
 	// From here on the driver's channel must be drained until it closes, so
 	// that the driver's goroutine ends before this call returns and a
 	// restart finds the driver idle.

@@ -230,6 +230,19 @@ func checkStream(t *testing.T, e env) {
 	if err := waitClosed(t, ch, closeBound); err != nil && !errors.Is(err, context.Canceled) {
 		t.Errorf("stream ended with %v after cancel, want no error or context.Canceled", err)
 	}
+
+	// The refused second call must not have disturbed the driver: a new
+	// stream starts at once.
+	sctx, cancel2 := context.WithCancel(ctx)
+	defer cancel2()
+	ch2, err := d.Stream(sctx)
+	if err != nil {
+		t.Fatalf("Stream after the first stream closed: %v", err)
+	}
+	sc2 := streamCheck{channels: sc.channels, lastNS: sc.lastNS}
+	sc2.collect(t, ch2, 1, s.timeout())
+	cancel2()
+	waitClosed(t, ch2, closeBound)
 }
 
 func checkHealth(t *testing.T, e env) {
