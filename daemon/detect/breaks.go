@@ -56,11 +56,18 @@ func (d *Detector) watchBreak(fs sample, rawT float64) bool {
 	w.dropBefore(fs.t - windowS)
 	if w.n > 0 {
 		top := *w.at(0)
-		if top.f-fs.f >= d.cfg.BreakDropFraction*(r.peakN-r.baseN) && !d.recovered(top, fs) {
+		need := d.cfg.BreakDropFraction * (r.peakN - r.baseN)
+		if top.f-fs.f >= need && !d.recovered(top, fs) {
+			// Date the break at the last reading still near the top of
+			// the window: the last one before the force fell.
+			atS := top.t
+			for i := 1; i < w.n && w.at(i).f >= top.f-need/8; i++ {
+				atS = w.at(i).t
+			}
 			if r.phase == holding {
 				d.closeHold(r.lastInS)
 			}
-			d.emit(reduce.Event{Kind: reduce.EventBreak, TimeS: top.t, ForceN: fptr(r.peakN)}, rawT)
+			d.emit(reduce.Event{Kind: reduce.EventBreak, TimeS: atS, ForceN: fptr(r.peakN)}, rawT)
 			d.emit(reduce.Event{Kind: reduce.EventEnd, TimeS: fs.t}, rawT)
 			d.state = Ended
 			return true

@@ -146,7 +146,7 @@ func (d *Detector) sample(s sample) {
 	d.lastT = s.t
 	d.samples++
 	if d.state == Idle {
-		d.idle.learn(s, d.dtS)
+		d.learn(s)
 	}
 	fs, ok := d.med.push(s)
 	if !ok {

@@ -6,8 +6,8 @@ import (
 	"path/filepath"
 	"testing"
 
-	"framed/daemon/detect/detectgen"
 	"framed/reduce"
+	"framed/reduce/curvefile"
 )
 
 // refDir holds real tension tests published under CC BY 4.0: 42CrMoS4
@@ -22,7 +22,7 @@ func loadRef(t *testing.T, path string) reduce.Curve {
 		t.Fatal(err)
 	}
 	defer f.Close()
-	c, err := detectgen.ReadCSV(f)
+	c, err := curvefile.Read(f)
 	if err != nil {
 		t.Fatalf("%s: %v", path, err)
 	}

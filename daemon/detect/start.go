@@ -20,6 +20,7 @@ type idleStats struct {
 	aboveSinceS       float64
 	aboveN            int
 	haveQuiet         bool
+	lastNear          bool
 }
 
 func (s *idleStats) reset() { *s = idleStats{extRef: math.NaN(), xhRef: math.NaN()} }
@@ -28,44 +29,53 @@ func (s *idleStats) reset() { *s = idleStats{extRef: math.NaN(), xhRef: math.NaN
 // noise, short enough to follow a slow thermal drift of the zero.
 const idleTauS = 2
 
-// learn updates the idle averages with a raw sample. The baseline is only
-// moved by readings near it, so a slow loading ramp cannot drag it along.
-func (s *idleStats) learn(x sample, dtS float64) {
+// learn updates the idle averages with a raw sample. Only readings near
+// the baseline count, so neither a slow loading ramp nor the first rise
+// of a test drags the baseline, the noise or the rest readings along.
+func (d *Detector) learn(x sample) {
+	s := &d.idle
 	s.n++
 	a := 1 / float64(s.n)
-	if w := dtS / idleTauS; a < w {
+	if w := d.dtS / idleTauS; a < w {
 		a = w
 	}
+	near := s.n <= 3 || math.Abs(x.f-s.base) <= 6*d.sigmaN()
+	prevNear := s.lastNear
+	s.lastNear = near
 	if s.n == 1 {
 		s.base = x.f
-	} else {
-		d := x.f - s.lastF
-		s.varF += a * (d*d/2 - s.varF)
-		gate := 6 * math.Sqrt(s.varF)
-		if math.Abs(x.f-s.base) <= gate || s.n <= 3 {
-			s.base += a * (x.f - s.base)
+	} else if near {
+		if prevNear {
+			df := x.f - s.lastF
+			s.varF += a * (df*df/2 - s.varF)
 		}
+		s.base += a * (x.f - s.base)
 	}
 	s.lastF = x.f
-	if !math.IsNaN(x.ext) && !math.IsInf(x.ext, 0) {
+	if !near {
+		return
+	}
+	if finite(x.ext) {
 		s.extN++
 		ae := 1 / float64(s.extN)
-		if w := dtS / idleTauS; ae < w {
+		if w := d.dtS / idleTauS; ae < w {
 			ae = w
 		}
 		if s.extN == 1 {
 			s.extRef = x.ext
 		} else {
-			d := x.ext - s.lastExt
-			s.varExt += ae * (d*d/2 - s.varExt)
+			if prevNear && finite(s.lastExt) {
+				de := x.ext - s.lastExt
+				s.varExt += ae * (de*de/2 - s.varExt)
+			}
 			s.extRef += ae * (x.ext - s.extRef)
 		}
-		s.lastExt = x.ext
 	}
-	if !math.IsNaN(x.xh) && !math.IsInf(x.xh, 0) {
+	s.lastExt = x.ext
+	if finite(x.xh) {
 		s.xhN++
 		ax := 1 / float64(s.xhN)
-		if w := dtS / idleTauS; ax < w {
+		if w := d.dtS / idleTauS; ax < w {
 			ax = w
 		}
 		if s.xhN == 1 {

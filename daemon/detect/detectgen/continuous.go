@@ -126,7 +126,7 @@ func (c Continuous) Generate() (reduce.Curve, ContinuousTruth) {
 		if f > tr.PeakN {
 			tr.PeakN = f
 		}
-		cv.TimeS[i] = t
+		cv.TimeS[i] = roundTime(t)
 		cv.ForceN[i] = c.Sensor.force(r, f)
 		cv.ExtensionMM[i] = c.Sensor.ext(r, ext)
 		cv.CrossheadMM[i] = c.Sensor.crosshead(x)

@@ -57,3 +57,6 @@ func (s Sensor) crosshead(x float64) float64 {
 	}
 	return quant(x, s.CrossheadStepMM)
 }
+
+// roundTime keeps sample times to the microsecond, as a logger writes them.
+func roundTime(tS float64) float64 { return math.Round(tS*1e6) / 1e6 }

@@ -154,7 +154,7 @@ func (s Stepped) Generate() (reduce.Curve, SteppedTruth) {
 		if fN > tr.PeakN {
 			tr.PeakN = fN
 		}
-		cv.TimeS[i] = ti
+		cv.TimeS[i] = roundTime(ti)
 		cv.ForceN[i] = s.Sensor.force(r, fN)
 		cv.ExtensionMM[i] = s.Sensor.ext(r, ext)
 		cv.CrossheadMM[i] = math.NaN() // dead weights: no crosshead
