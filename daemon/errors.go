@@ -13,3 +13,19 @@ var (
 	// ErrNotRunning: framectl found no daemon on the control socket.
 	ErrNotRunning = errors.New("framed is not running")
 )
+
+// firstLine keeps only the first line of a wrapped error's message (plugin
+// launch errors carry a page of advice) while errors.Is still sees through.
+type firstLine struct{ err error }
+
+func (e firstLine) Error() string {
+	s := e.err.Error()
+	for i := 0; i < len(s); i++ {
+		if s[i] == '\n' {
+			return s[:i]
+		}
+	}
+	return s
+}
+
+func (e firstLine) Unwrap() error { return e.err }

@@ -1,0 +1,66 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"strings"
+	"sync"
+
+	"framed/daemon"
+	"framed/drivers/sim"
+	"framed/reduce"
+)
+
+// demoFrame is the demo's frame id: the goods-in bench of the invented
+// workshop the simulated specimens come from.
+const demoFrame = "goodsin-1"
+
+// demoSetup makes the configuration of `framed --demo`: the simulated
+// frame running its scripted series in a loop. The specimens' metadata is
+// handed out in the script's order, the way a lab system would queue it
+// on framed/<frame>/specimens; when the sim restarts, so does the order.
+// A configuration file given with --demo keeps its settings (broker,
+// frame, store) and gets the sim as its driver.
+func demoSetup(cfg daemon.Config, fromFile bool) (daemon.Config, daemon.Options, error) {
+	if !fromFile {
+		cfg.Frame = demoFrame
+	}
+	cfg.Drivers = []daemon.DriverConfig{{Name: "sim", Kind: "sim", Config: json.RawMessage(sim.SampleConfig)}}
+	cfg.Channels = daemon.ChannelMap{}
+	script := sim.DemoScript()
+	var mu sync.Mutex
+	next := 0
+	opt := daemon.Options{
+		SpecimenFallback: func() (reduce.Specimen, bool) {
+			mu.Lock()
+			defer mu.Unlock()
+			sp := script[next%len(script)].Geometry()
+			next++
+			return sp, true
+		},
+		OnDriverRestart: func(string) {
+			mu.Lock()
+			next = 0
+			mu.Unlock()
+		},
+	}
+	return cfg, opt, nil
+}
+
+func demoBanner(w io.Writer, cfg daemon.Config, d *daemon.Daemon) {
+	broker := cfg.Broker
+	if strings.HasPrefix(broker, "embedded") {
+		_, addr, _ := daemon.ParseBroker(broker)
+		broker = "tcp://" + addr
+	}
+	fmt.Fprintf(w, `
+framed demo: a simulated frame on the goods-in bench of %s
+runs its specimens over and over; each result is published on
+  %s/%s/results/<test-id>  (broker %s)
+Watch them arrive in another terminal:
+  go run ./cmd/framectl watch --broker %s --frame %s
+Stop with Ctrl-C. Nothing here controls a real frame.
+
+`, sim.DemoScenario, cfg.MQTT.Root, cfg.Frame, broker, broker, cfg.Frame)
+}
