@@ -7,7 +7,7 @@ import "sync/atomic"
 type counters struct {
 	lines, samples, batches                atomic.Uint64
 	garbled, checksum, overlong            atomic.Uint64
-	outOfRange, nanValues                  atomic.Uint64
+	outOfRange, nanValues, timeNotRising   atomic.Uint64
 	reopens, openFailures, clockReanchored atomic.Uint64
 }
 
@@ -24,5 +24,6 @@ func (c *counters) snapshot() map[string]uint64 {
 		"reopens":         c.reopens.Load(),
 		"open_failures":   c.openFailures.Load(),
 		"clock_resets":    c.clockReanchored.Load(),
+		"time_not_rising": c.timeNotRising.Load(),
 	}
 }

@@ -24,6 +24,7 @@ type Driver struct {
 	streaming bool
 	connected bool
 	message   string
+	lastNS    int64 // last sample time of the previous stream
 	counters  counters
 }
 
@@ -105,9 +106,13 @@ func (d *Driver) Stream(ctx context.Context) (<-chan drivers.Batch, error) {
 
 // run owns the port until ctx ends, reopening it when the device goes.
 func (d *Driver) run(ctx context.Context, c Config, port Port, out chan<- drivers.Batch) {
-	s := newStreamer(c, &d.counters, out)
+	d.mu.Lock()
+	floor := d.lastNS
+	d.mu.Unlock()
+	s := newStreamer(c, &d.counters, out, floor)
 	defer func() {
 		d.mu.Lock()
+		d.lastNS = s.floorNS
 		d.streaming, d.connected = false, false
 		d.message = "stopped"
 		d.mu.Unlock()

@@ -24,14 +24,16 @@ type streamer struct {
 
 	lastNS     int64 // time of the last emitted sample, 0 before the first
 	pendingGap bool  // samples were lost since lastNS
+	floorNS    int64 // times must rise above this, across streams too
 	readNow    time.Time
 	ctx        context.Context
 }
 
-func newStreamer(c Config, cnt *counters, out chan<- drivers.Batch) *streamer {
+func newStreamer(c Config, cnt *counters, out chan<- drivers.Batch, floorNS int64) *streamer {
 	s := &streamer{
 		c: c, parser: NewParser(c), asm: newAssembler(c.MaxLineBytes),
 		clock: newBoardClock(c.TimeBits, c.TimeUnit), counters: cnt, out: out,
+		floorNS: floorNS,
 	}
 	s.newBatch()
 	return s
@@ -106,13 +108,21 @@ func (s *streamer) line(b []byte) {
 	if s.sample.OutOfRange > 0 {
 		s.counters.outOfRange.Add(uint64(s.sample.OutOfRange))
 	}
-	hostNS := s.readNow.UnixNano()
+	// Times rise strictly, within a stream and across streams of one
+	// driver: lines of one read share a receipt time, so host times are
+	// spread by 1 us; a board stamp that does not advance is dropped.
+	hostNS := max(s.readNow.UnixNano(), s.floorNS+1000)
 	t := hostNS
 	if s.sample.HasBoardTime {
 		var re bool
 		t, re = s.clock.toHost(s.sample.BoardTime, hostNS)
 		if re {
 			s.counters.clockReanchored.Add(1)
+		}
+		if t <= s.floorNS {
+			s.counters.timeNotRising.Add(1)
+			s.pendingGap = true
+			return
 		}
 	}
 	if s.pendingGap && s.lastNS != 0 {
@@ -129,7 +139,7 @@ func (s *streamer) line(b []byte) {
 	for i, v := range s.sample.Values {
 		s.batch.Values[i] = append(s.batch.Values[i], v)
 	}
-	s.lastNS = t
+	s.lastNS, s.floorNS = t, t
 	s.counters.samples.Add(1)
 	if len(s.batch.TimeNS) >= s.c.BatchSamples {
 		s.flush()
