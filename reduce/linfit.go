@@ -8,6 +8,8 @@ import "math"
 type sums struct {
 	n                     float64
 	sx, sy, sxx, sxy, syy float64
+	// Higher moments for the curvature test (quadratic fit).
+	sx3, sx4, sx2y float64
 }
 
 func (s *sums) add(x, y float64) {
@@ -17,10 +19,15 @@ func (s *sums) add(x, y float64) {
 	s.sxx += x * x
 	s.sxy += x * y
 	s.syy += y * y
+	x2 := x * x
+	s.sx3 += x2 * x
+	s.sx4 += x2 * x2
+	s.sx2y += x2 * y
 }
 
 func (s sums) minus(o sums) sums {
-	return sums{s.n - o.n, s.sx - o.sx, s.sy - o.sy, s.sxx - o.sxx, s.sxy - o.sxy, s.syy - o.syy}
+	return sums{s.n - o.n, s.sx - o.sx, s.sy - o.sy, s.sxx - o.sxx, s.sxy - o.sxy, s.syy - o.syy,
+		s.sx3 - o.sx3, s.sx4 - o.sx4, s.sx2y - o.sx2y}
 }
 
 // line is a fitted straight line with the ASTM E111 statistics.
@@ -68,4 +75,69 @@ func (s sums) fit() (l line, ok bool) {
 		l.v1Pct = math.Inf(1)
 	}
 	return l, true
+}
+
+// bend measures how far the points bend away from a straight line: the
+// quadratic y = a + b x + c x^2 is fitted, and bend returns the relative
+// change of its slope across the x range of the points, |2 c dx| / b, and
+// the F statistic of the quadratic term (its significance against noise).
+// A window is straight when either is small.
+func (s sums) bend(xMin, xMax float64) (relChange, f float64, ok bool) {
+	if s.n < 5 {
+		return 0, 0, false
+	}
+	m := [5]float64{s.n, s.sx, s.sxx, s.sx3, s.sx4}
+	r := [3]float64{s.sy, s.sxy, s.sx2y}
+	a, b, c, ok := solve3(m, r)
+	if !ok {
+		return 0, 0, false
+	}
+	l, ok := s.fit()
+	if !ok || l.slope == 0 {
+		return 0, 0, false
+	}
+	// Slope of the quadratic at the middle of the range.
+	mid := (xMin + xMax) / 2
+	slope := b + 2*c*mid
+	if slope == 0 {
+		return 0, 0, false
+	}
+	relChange = math.Abs(2 * c * (xMax - xMin) / slope)
+	// SSE of the line and of the quadratic.
+	mx, my := s.sx/s.n, s.sy/s.n
+	sxx := s.sxx - s.sx*mx
+	sxy := s.sxy - s.sx*my
+	syy := s.syy - s.sy*my
+	sseLin := syy - l.slope*sxy
+	_ = sxx
+	sseQ := s.syy - a*s.sy - b*s.sxy - c*s.sx2y
+	if sseQ <= 0 {
+		return relChange, math.Inf(1), true
+	}
+	f = (sseLin - sseQ) / (sseQ / (s.n - 3))
+	return relChange, f, true
+}
+
+// solve3 solves the normal equations of a quadratic least-squares fit
+// from the moments m[k] = sum x^k and r[k] = sum x^k y by Cramer's rule.
+func solve3(m [5]float64, r [3]float64) (a, b, c float64, ok bool) {
+	A := [3][3]float64{{m[0], m[1], m[2]}, {m[1], m[2], m[3]}, {m[2], m[3], m[4]}}
+	det := func(M [3][3]float64) float64 {
+		return M[0][0]*(M[1][1]*M[2][2]-M[1][2]*M[2][1]) -
+			M[0][1]*(M[1][0]*M[2][2]-M[1][2]*M[2][0]) +
+			M[0][2]*(M[1][0]*M[2][1]-M[1][1]*M[2][0])
+	}
+	d := det(A)
+	if d == 0 || !finite(d) {
+		return 0, 0, 0, false
+	}
+	var sol [3]float64
+	for k := 0; k < 3; k++ {
+		B := A
+		for j := 0; j < 3; j++ {
+			B[j][k] = r[j]
+		}
+		sol[k] = det(B) / d
+	}
+	return sol[0], sol[1], sol[2], finite(sol[0]) && finite(sol[1]) && finite(sol[2])
 }

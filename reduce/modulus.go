@@ -15,8 +15,11 @@ import (
 // follows the idea of an objective, data-quality-driven choice (ASTM E3076
 // describes one): every window between two stress levels on the first
 // loading, levels at 1 % steps of the highest stress before the maximum,
-// is fitted in O(1) from moment sums taken at the levels, and the window
-// with the lowest coefficient of variation of the slope V1 sets the noise
+// is fitted in O(1) from moment sums taken at the levels. Bent windows are
+// dropped: a quadratic fitted to the window must not change its slope by
+// more than bendRel across it unless that bend is lost in the noise (this
+// keeps long stretches of plastic flow out, whose many points would
+// otherwise win). Of the rest, the window with the lowest coefficient of variation of the slope V1 sets the noise
 // floor. V1 falls with more points and rises with curvature; the widest
 // window whose V1 stays within widenFactor of that floor is the fit: the
 // longest straight stretch, with the toe and the knee (which bend the
@@ -36,6 +39,14 @@ const (
 // best-V1 window alone can sit on a short straight stretch between
 // extensometer artefacts).
 var widenFactor = 3.0
+
+// A window is bent, and no candidate, when the slope of a quadratic fitted
+// to it changes by more than bendRel across it and the quadratic term is
+// significant against the noise (F above bendF, about t = 3).
+const (
+	bendRel = 0.01
+	bendF   = 9
+)
 
 type window struct {
 	lo, hi int // level numbers
@@ -67,13 +78,14 @@ func (w *work) fitElastic() {
 	// Moment sums at the first crossing of each level, one pass.
 	var at [levelSteps + 1]sums
 	var idx [levelSteps + 1]int
+	var xs [levelSteps + 1]float64
 	reached := 0
 	var acc sums
 	x0 := w.strain[w.first]
 	for i := w.first; i <= limit && reached <= levelSteps; i++ {
 		s, e := w.stress[i], w.strain[i]
 		for reached <= levelSteps && s >= top*float64(reached)/levelSteps {
-			at[reached], idx[reached] = acc, i
+			at[reached], idx[reached], xs[reached] = acc, i, e-x0
 			reached++
 		}
 		if finite(s) && finite(e) {
@@ -86,6 +98,10 @@ func (w *work) fitElastic() {
 		for hi := lo + minSpan; hi < reached; hi++ {
 			l, ok := at[hi].minus(at[lo]).fit()
 			if !ok || l.points < minFitPoints || !(l.slope > 0) {
+				continue
+			}
+			rel, f, ok := at[hi].minus(at[lo]).bend(xs[lo], xs[hi])
+			if !ok || (f > bendF && rel > bendRel) {
 				continue
 			}
 			cands = append(cands, window{lo, hi, l})
