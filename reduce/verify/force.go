@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 )
 
 // ForceReport is the outcome of a force verification. Its JSON form is the
@@ -191,7 +192,7 @@ func classifyPoint(g point, resolutionN float64) Point {
 	}
 	if len(missing) > 0 {
 		p.Class = NoClass
-		p.Reasons = append(p.Reasons, fmt.Sprintf("series %v missing: ISO 7500-1 classes a force from three increasing series", missing))
+		p.Reasons = append(p.Reasons, fmt.Sprintf("series %s missing: ISO 7500-1 classes a force from three increasing series", strings.Join(missing, ", ")))
 		return p
 	}
 	// FROM MEMORY: the class limits come from ForceLimits.
