@@ -25,8 +25,10 @@
 // bad configs (ErrBadConfig, also after a good config, which must survive);
 // configure; stream (samples arrive, Seq counts from 0 by one, times rise
 // strictly within and across batches, one column per channel of Info, a
-// second Stream is refused with ErrStreaming, Health answers meanwhile);
-// health; cancel (the channel closes promptly, and in the direct run no
+// second Stream is refused with ErrStreaming, Health answers meanwhile, and
+// after cancelling a new stream starts at once);
+// health (answers without error before and after Configure; a health that
+// is not OK carries a message); cancel (the channel closes promptly, and in the direct run no
 // goroutine is left behind); restart (stream, cancel, stream again: Seq
 // starts again at 0 and times go on rising); fault (when the suite can
 // inject one: the stream ends with a Batch.Err, or reopens with a gap, as the
