@@ -31,6 +31,8 @@ type Publisher struct {
 	notify    chan struct{}
 	specimens chan reduce.Specimen
 
+	closing atomic.Bool
+
 	mu      sync.Mutex
 	started bool
 	up      chan struct{} // closed while connected
@@ -157,8 +159,6 @@ func (p *Publisher) onConnect(c mqtt.Client) {
 	// Status and the specimen subscription are redone on each connection
 	// (the session is clean). Neither handler may block the client, so
 	// their tokens are not waited on here.
-	c.Publish(p.topics.status, 1, true, p.statusPayload("online", time.Now()))
-	c.Subscribe(p.topics.specimens, 1, p.onSpecimen)
 	p.mu.Lock()
 	if isClosed(p.lost) {
 		p.lost = make(chan struct{})
@@ -167,6 +167,10 @@ func (p *Publisher) onConnect(c mqtt.Client) {
 		close(p.up)
 	}
 	p.mu.Unlock()
+	if !p.closing.Load() {
+		c.Publish(p.topics.status, 1, true, p.statusPayload("online", time.Now()))
+	}
+	c.Subscribe(p.topics.specimens, 1, p.onSpecimen)
 	p.Notify()
 }
 
@@ -232,9 +236,10 @@ func (p *Publisher) Close() {
 	if !started || cancel == nil {
 		return
 	}
+	p.closing.Store(true)
 	cancel()
 	p.wg.Wait()
-	if p.connected() {
+	if p.client.IsConnectionOpen() {
 		t := p.client.Publish(p.topics.status, 1, true, p.statusPayload("offline", time.Now()))
 		t.WaitTimeout(2 * time.Second)
 	}
