@@ -79,7 +79,7 @@ func TestRambergOsgood(t *testing.T) {
 }
 
 func bisect(f func(float64) float64, lo, hi float64) float64 {
-	for k := 0; k < 200; k++ {
+	for k := 0; k < 80; k++ {
 		mid := (lo + hi) / 2
 		if (f(mid) > 0) == (f(hi) > 0) {
 			hi = mid

@@ -21,6 +21,10 @@ import (
 // skipped (ISO 6892:1998 cl. 4.9.2) unless it is the only minimum. Ae is
 // the plastic strain from ReH to the start of uniform hardening.
 
+// transientFrac bounds the initial transient's length in strain (common
+// practice: it is over within a fraction of a percent).
+const transientFrac = 0.002
+
 type yieldPoint struct {
 	ok            bool
 	iH            int
@@ -76,6 +80,22 @@ func (w *work) yieldPoint() yieldPoint {
 			break
 		}
 	}
+	// The transient lasts until the recovery tops out: the stress falls
+	// back by m from its highest since the dip, or the strain has run
+	// transientFrac past the dip's bottom.
+	top := math.Inf(-1)
+	for ; i < w.iFm; i++ {
+		s, x := w.stress[i], w.strain[i]
+		if !finite(s) {
+			continue
+		}
+		if s > top {
+			top = s
+		}
+		if s < top-m || (iDip >= 0 && finite(x) && x-w.strain[iDip] > transientFrac) {
+			break
+		}
+	}
 	// Coarse end of the yield range: the stress rises a clear band above
 	// the lowest stress of the plateau so far (plateau serrations stay
 	// inside the band).
@@ -99,8 +119,14 @@ func (w *work) yieldPoint() yieldPoint {
 		end = w.iFm
 	}
 	// Plateau level: the median stress between the dip and the coarse end.
+	// The rising tail into hardening is left out: the plateau ends at the
+	// last sample within 2 m of its lowest stress.
+	tail := end
+	for tail > i+1 && !(w.stress[tail-1] <= low+2*m) {
+		tail--
+	}
 	var plat []float64
-	for j := i; j < end; j++ {
+	for j := i; j < tail; j++ {
 		if finite(w.stress[j]) {
 			plat = append(plat, w.stress[j])
 		}
