@@ -43,6 +43,7 @@ func runVerify(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	zeroN := fs.Float64("zero-after-N", 0, "indicated force after unloading, N (required for force)")
 	ext := fs.Bool("extensometer", false, "class an extensometer (ISO 9513) instead of the force channel")
 	resMM := fs.Float64("resolution-mm", 0, "extensometer resolution, mm (required with --extensometer)")
+	fluctN := fs.Float64("fluctuation-N", 0, "range of the unloaded reading's fluctuation, N; when wider than --resolution-N the resolution becomes half of it plus one increment")
 	asJSON := fs.Bool("json", false, "print the report as one JSON document")
 	forces := fs.String("forces", "", "guided verification: reference forces in N, comma separated")
 	decreasing := fs.Bool("decreasing", true, "guided verification: read the decreasing run after series 3 (reversibility)")
@@ -92,6 +93,9 @@ func runVerify(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	var rd []verify.Reading
 	zeroAfterN := *zeroN
 	if *readings != "" {
+		if given["forces"] {
+			return fmt.Errorf("%w: --forces is for a guided verification; with --readings the forces come from the file", errUsage)
+		}
 		if !given["zero-after-N"] {
 			return fmt.Errorf("%w: --zero-after-N is required (the reading after unloading)", errUsage)
 		}
@@ -122,7 +126,11 @@ func runVerify(ctx context.Context, args []string, stdout, stderr io.Writer) err
 		}
 		rd, zeroAfterN = g.Readings, g.ZeroAfterN
 	}
-	rep, err := verify.ClassifyForce(rd, *resN, zeroAfterN)
+	r := *resN
+	if given["fluctuation-N"] {
+		r = verify.Resolution(*resN, *fluctN)
+	}
+	rep, err := verify.ClassifyForce(rd, r, zeroAfterN)
 	if err != nil {
 		return err
 	}

@@ -126,6 +126,25 @@ func TestVerifyTextReport(t *testing.T) {
 	}
 }
 
+func TestVerifyFluctuation(t *testing.T) {
+	// Indicator steps 0.5 N but wanders over 3 N unloaded: r = 3/2 + 0.5 =
+	// 2 N (ISO 7500-1 rule, from memory), so a at 1000 N = 100 x 2 / 1000
+	// = 0.2 % (by hand).
+	var stdout, stderr bytes.Buffer
+	code := run([]string{"verify", "--readings", "../../testdata/verify/boundary-and-f0/readings.csv",
+		"--resolution-N", "0.5", "--fluctuation-N", "3", "--zero-after-N", "0", "--json"}, &stdout, &stderr)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr.String())
+	}
+	var rep verify.ForceReport
+	if err := json.Unmarshal(stdout.Bytes(), &rep); err != nil {
+		t.Fatal(err)
+	}
+	if rep.ResolutionN != 2 || math.Abs(rep.Points[0].APct-0.2) > 1e-12 {
+		t.Errorf("resolution %v, a at 1000 N %v", rep.ResolutionN, rep.Points[0].APct)
+	}
+}
+
 func TestVerifyUsage(t *testing.T) {
 	t.Setenv("FRAMED_STATE", "")
 	csv := "../../testdata/verify/class05-five-forces/readings.csv"
@@ -138,6 +157,7 @@ func TestVerifyUsage(t *testing.T) {
 		{[]string{"verify", "--readings", csv, "--resolution-N", "1"}, 2, "--zero-after-N is required"},
 		{[]string{"verify", "--extensometer", "--resolution-mm", "0.001"}, 2, "needs --readings"},
 		{[]string{"verify", "--readings", csv, "--resolution-N", "1", "--zero-after-N", "0", "extra"}, 2, "unexpected argument"},
+		{[]string{"verify", "--readings", csv, "--resolution-N", "1", "--zero-after-N", "0", "--forces", "5"}, 2, "--forces is for a guided"},
 		{[]string{"verify", "--resolution-N", "1"}, 1, "use --readings FILE.csv, or start framed"},
 		{[]string{"verify", "--resolution-N", "1", "--state", t.TempDir()}, 1, "nothing answers on"},
 		{[]string{"verify", "--readings", "no-such.csv", "--resolution-N", "1", "--zero-after-N", "0"}, 1, "no-such.csv"},

@@ -73,8 +73,9 @@ type Check struct {
 
 // ClassifyForce computes ISO 7500-1 errors and classes, and the ASTM E4
 // criteria, from verification readings. resolutionN is the resolution r of
-// the force indicator (N, positive); zeroAfterN is the residual indication
-// Fi0 after unloading (N).
+// the force indicator (N, positive; see Resolution when the unloaded
+// reading fluctuates); zeroAfterN is the residual indication Fi0 after
+// unloading (N).
 //
 // Readings at the same reference force (exactly equal values) form one
 // point. Each point needs series 1, 2 and 3 to be classed; with a series

@@ -358,3 +358,15 @@ func TestClassifyForceErrors(t *testing.T) {
 		}
 	}
 }
+
+func TestResolution(t *testing.T) {
+	// A steady indicator stepping in 0.1 N: r = 0.1 N. One fluctuating
+	// over 1.2 N unloaded: r = 1.2 / 2 + 0.1 = 0.7 N (ISO 7500-1 rule,
+	// from memory, worked by hand). A fluctuation of exactly one
+	// increment is no fluctuation beyond the increment: r = 0.1 N.
+	for _, c := range [][3]float64{{0.1, 0, 0.1}, {0.1, 1.2, 0.7}, {0.1, 0.1, 0.1}} {
+		if got := Resolution(c[0], c[1]); math.Abs(got-c[2]) > 1e-12 {
+			t.Errorf("Resolution(%v, %v) = %v, want %v", c[0], c[1], got, c[2])
+		}
+	}
+}
