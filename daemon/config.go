@@ -27,9 +27,9 @@ type Config struct {
 	Drivers []DriverConfig `json:"drivers"`
 	// Channels maps the frame's signals (force, extension, crosshead) to
 	// "driver/channel". Empty: the first channel of each quantity.
-	Channels ChannelMap      `json:"channels"`
-	Detect   DetectConfig    `json:"detect"`
-	Store    StoreConfig     `json:"store"`
+	Channels ChannelMap       `json:"channels"`
+	Detect   DetectConfig     `json:"detect"`
+	Store    StoreConfig      `json:"store"`
 	Specimen *reduce.Specimen `json:"default_specimen,omitempty"`
 	// CalibrationMaxAgeDays: older calibrations are flagged stale (0: 365).
 	CalibrationMaxAgeDays float64 `json:"calibration_max_age_days,omitempty"`

@@ -255,4 +255,3 @@ func TestEndToEndEmbeddedIntegration(t *testing.T) {
 	addr := fmt.Sprintf("127.0.0.1:%d", port)
 	runEndToEnd(t, "embedded:"+addr, "tcp://"+addr)
 }
-
