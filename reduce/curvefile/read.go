@@ -24,7 +24,7 @@ const MaxLineBytes = 4096
 func Read(r io.Reader) (reduce.Curve, error) {
 	var c reduce.Curve
 	sc := bufio.NewScanner(r)
-	sc.Buffer(make([]byte, 0, 64*1024), MaxLineBytes)
+	sc.Buffer(make([]byte, 0, MaxLineBytes), MaxLineBytes)
 	line := 0
 	header := false
 	var cols [4]float64

@@ -11,8 +11,8 @@ import (
 )
 
 // Write writes c as a curve file. Values use the shortest decimal that
-// reads back to the same float64, so Read(Write(c)) == c; NaN (and a nil
-// column) become empty cells.
+// reads back to the same float64, so Read gives back the same finite
+// values; NaN, infinities and nil columns become empty cells.
 func Write(w io.Writer, c reduce.Curve) error {
 	n := c.Len()
 	for _, col := range [][]float64{c.ForceN, c.ExtensionMM, c.CrossheadMM} {
