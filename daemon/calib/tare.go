@@ -56,3 +56,12 @@ func NewTare(channel string, at time.Time, prev Model, w Window) (Calibration, e
 	c := Calibration{ID: NewID(channel, at), Channel: channel, At: at, Kind: KindTare, Model: m, Tare: &w}
 	return c, c.Validate()
 }
+
+// TareOn re-zeroes the channel of prev, the calibration in force, keeping
+// its unit, gain and quadratic term. The span's references stay with the
+// span calibration they belong to.
+func TareOn(prev Calibration, at time.Time, w Window) (Calibration, error) {
+	c, err := NewTare(prev.Channel, at, prev.Model, w)
+	c.Unit = prev.Unit
+	return c, err
+}

@@ -1,6 +1,7 @@
 package verify
 
 import (
+	"encoding/json"
 	"errors"
 	"strings"
 	"testing"
@@ -76,6 +77,7 @@ func FuzzReadReadings(f *testing.F) {
 		h,
 		h + "1,1000,1002\n2,1000,1001\n3,1000,999\nr,1000,1003\n",
 		h + "1,1e308,1e308\n3,1e-308,-1e308\n",
+		h + "1,1e-300,1e300\n",
 		h + "r,5,5\n",
 		h + "1,\"1000\",\"1\n002\"\n",
 		"\ufeff" + h + "R, 7 , 7\n\n\n",
@@ -100,11 +102,17 @@ func FuzzReadReadings(f *testing.F) {
 			t.Fatal("no error and no readings")
 		}
 		rep, err := ClassifyForce(rd, 1, 0)
-		if err != nil && !errors.Is(err, ErrDuplicate) {
-			t.Fatalf("parsed readings rejected: %v", err)
+		if err != nil {
+			if !errors.Is(err, ErrDuplicate) && !errors.Is(err, ErrBadNumber) {
+				t.Fatalf("parsed readings rejected with an unnamed error: %v", err)
+			}
+			return
 		}
-		if err == nil && len(rep.Ranges) != len(rep.Points) {
+		if len(rep.Ranges) != len(rep.Points) {
 			t.Fatalf("%d ranges for %d points", len(rep.Ranges), len(rep.Points))
+		}
+		if _, err := json.Marshal(rep); err != nil {
+			t.Fatalf("report cannot be written: %v", err)
 		}
 	})
 }

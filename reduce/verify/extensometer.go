@@ -52,6 +52,9 @@ func ClassifyExtensometer(readings []Displacement, resolutionMM float64) (Extens
 			return ExtensometerReport{}, fmt.Errorf("reading %d: %w: %v mm, %v mm", i+1, ErrBadNumber, d.ReferenceMM, d.IndicatedMM)
 		}
 		p := classifyDisplacement(d, resolutionMM)
+		if !finite(p.BiasUM) || (p.BiasPct != nil && !finite(*p.BiasPct)) {
+			return ExtensometerReport{}, fmt.Errorf("reading %d: %w: bias of %v mm against %v mm is out of range", i+1, ErrBadNumber, d.IndicatedMM, d.ReferenceMM)
+		}
 		rep.Class = rep.Class.Worse(p.Class)
 		rep.Points = append(rep.Points, p)
 	}

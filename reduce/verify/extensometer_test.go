@@ -1,6 +1,7 @@
 package verify
 
 import (
+	"encoding/json"
 	"errors"
 	"math"
 	"strings"
@@ -88,4 +89,37 @@ func TestReadDisplacements(t *testing.T) {
 			t.Errorf("%q: no error", in)
 		}
 	}
+}
+
+// FuzzReadDisplacements: any input gives readings or a named error, never
+// a panic.
+func FuzzReadDisplacements(f *testing.F) {
+	for _, s := range []string{
+		"", "reference_mm,indicated_mm\n", "reference_mm,indicated_mm\n0.1,0.1015\n1,1.0015\n",
+		"reference_mm,indicated_mm\n-1e308,1e308\n", "reference_mm,indicated_mm\n1,\"2\n",
+		"series,reference_N,indicated_N\n1,2,3\n",
+	} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, in string) {
+		d, err := ReadDisplacements(strings.NewReader(in))
+		if err != nil {
+			for _, e := range []error{ErrBadHeader, ErrBadLine, ErrBadNumber, ErrNoReadings} {
+				if errors.Is(err, e) {
+					return
+				}
+			}
+			t.Fatalf("unnamed error %v", err)
+		}
+		rep, err := ClassifyExtensometer(d, 0.001)
+		if err != nil {
+			if !errors.Is(err, ErrBadNumber) {
+				t.Fatalf("parsed readings rejected with an unnamed error: %v", err)
+			}
+			return
+		}
+		if _, err := json.Marshal(rep); err != nil {
+			t.Fatalf("report cannot be written: %v", err)
+		}
+	})
 }

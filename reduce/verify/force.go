@@ -97,10 +97,17 @@ func ClassifyForce(readings []Reading, resolutionN, zeroAfterN float64) (ForceRe
 	}
 	rep := ForceReport{ResolutionN: resolutionN, ZeroAfterN: zeroAfterN}
 	for _, g := range groups {
-		rep.Points = append(rep.Points, classifyPoint(g, resolutionN))
+		p := classifyPoint(g, resolutionN)
+		if err := p.finite(); err != nil {
+			return ForceReport{}, err
+		}
+		rep.Points = append(rep.Points, p)
 	}
 	topN := groups[len(groups)-1].referenceN
 	rep.F0Pct = 100 * zeroAfterN / topN
+	if !finite(rep.F0Pct) {
+		return ForceReport{}, fmt.Errorf("%w: f0 = 100 x %v / %v N is out of range", ErrBadNumber, zeroAfterN, topN)
+	}
 	rep.F0Class = NoClass
 	for _, l := range ForceLimits { // FROM MEMORY: f0 limits of ForceLimits
 		if within(rep.F0Pct, l.F0Pct) {
@@ -210,6 +217,18 @@ func classifyPoint(g point, resolutionN float64) Point {
 	}
 	p.Reasons = append(p.Reasons, pointExceeds(p, ForceLimits[len(ForceLimits)-1])...)
 	return p
+}
+
+// finite refuses a point whose errors overflowed: readings so far apart
+// in magnitude (1e-300 N against 1e300 N) that a percentage is infinite.
+// They are no verification and cannot be written as JSON.
+func (p Point) finite() error {
+	for _, v := range []*float64{p.QPct, p.BPct, p.VPct, &p.APct} {
+		if v != nil && !finite(*v) {
+			return fmt.Errorf("%w: errors at %v N are out of range", ErrBadNumber, p.ReferenceN)
+		}
+	}
+	return nil
 }
 
 // pointExceeds lists which of the point's errors exceed class l's limits.

@@ -350,6 +350,8 @@ func TestClassifyForceErrors(t *testing.T) {
 		{"negative reference", []Reading{{Series1, -5, 1}}, 1, 0, ErrBadNumber},
 		{"NaN indicated", []Reading{{Series1, 5, math.NaN()}}, 1, 0, ErrBadNumber},
 		{"bad series", []Reading{{Series(9), 5, 5}}, 1, 0, ErrBadSeries},
+		{"overflowing q", []Reading{{Series1, 1e-300, 1e300}}, 1e-301, 0, ErrBadNumber},
+		{"overflowing f0", ok, 1, math.MaxFloat64, ErrBadNumber}, // 100 x MaxFloat64 overflows
 	}
 	for _, c := range cases {
 		_, err := ClassifyForce(c.rd, c.resN, c.z)
