@@ -22,5 +22,6 @@
 //
 // Integration tests start a real Mosquitto (package brokertest); they skip
 // with a loud message when the binary is missing, and fail instead when
-// FRAMED_REQUIRE_MOSQUITTO=1 (as CI sets it).
+// FRAMED_REQUIRE_MOSQUITTO=1 (as CI should set it). FRAMED_LONG=1 repeats
+// the broker-outage test ten times instead of once.
 package publish

@@ -1,6 +1,7 @@
 package publish
 
 import (
+	"crypto/tls"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -82,7 +83,7 @@ type subscriber struct {
 	ready  chan struct{} // gets a value after each (re)subscription
 }
 
-func subscribe(t *testing.T, broker, topic string) *subscriber {
+func subscribe(t *testing.T, broker, topic string, tlsCfg ...*tls.Config) *subscriber {
 	t.Helper()
 	s := &subscriber{msgs: make(chan received, 1000), ready: make(chan struct{}, 10)}
 	o := mqtt.NewClientOptions().AddBroker(broker).
@@ -90,6 +91,9 @@ func subscribe(t *testing.T, broker, topic string) *subscriber {
 		SetAutoReconnect(true).SetConnectRetry(true).
 		SetConnectRetryInterval(50 * time.Millisecond).SetMaxReconnectInterval(100 * time.Millisecond).
 		SetOrderMatters(true)
+	if len(tlsCfg) > 0 {
+		o.SetTLSConfig(tlsCfg[0])
+	}
 	o.SetOnConnectHandler(func(c mqtt.Client) {
 		tok := c.Subscribe(topic, 1, func(_ mqtt.Client, m mqtt.Message) {
 			s.msgs <- received{m.Topic(), string(m.Payload()), m.Retained()}

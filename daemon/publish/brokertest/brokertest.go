@@ -61,6 +61,27 @@ func FreePort(t testing.TB) int {
 // port and waits). t.Cleanup stops it.
 func StartMosquitto(t testing.TB, configTemplateName string) (url string, stop func(), restart func()) {
 	t.Helper()
+	return StartMosquittoWith(t, Options{Template: configTemplateName})
+}
+
+// Options for StartMosquittoWith.
+type Options struct {
+	// Template is the config template's file name in testdata/mosquitto.
+	Template string
+	// Files are written into the broker's directory ({{.Dir}}) before it
+	// starts: certificates, password files.
+	Files map[string][]byte
+	// Scheme of the returned URL, default "tcp" ("ssl" for TLS listeners).
+	Scheme string
+}
+
+// StartMosquittoWith is StartMosquitto with extra files and URL scheme.
+func StartMosquittoWith(t testing.TB, opt Options) (url string, stop func(), restart func()) {
+	t.Helper()
+	configTemplateName := opt.Template
+	if opt.Scheme == "" {
+		opt.Scheme = "tcp"
+	}
 	bin, err := Binary()
 	if err != nil {
 		if os.Getenv(RequireEnv) == "1" {
@@ -73,6 +94,11 @@ func StartMosquitto(t testing.TB, configTemplateName string) (url string, stop f
 		t.Fatalf("broker config template: %v", err)
 	}
 	dir := t.TempDir()
+	for name, b := range opt.Files {
+		if err := os.WriteFile(filepath.Join(dir, name), b, 0o600); err != nil {
+			t.Fatal(err)
+		}
+	}
 	port := FreePort(t)
 	var conf bytes.Buffer
 	if err := tmpl.Execute(&conf, map[string]any{"Port": port, "Dir": dir}); err != nil {
@@ -134,7 +160,7 @@ func StartMosquitto(t testing.TB, configTemplateName string) (url string, stop f
 			t.Logf("mosquitto log:\n%s", logs.String())
 		}
 	})
-	return fmt.Sprintf("tcp://%s", addr), stop, restart
+	return fmt.Sprintf("%s://%s", opt.Scheme, addr), stop, restart
 }
 
 // lockedBuffer collects the broker's output, readable while it runs.
