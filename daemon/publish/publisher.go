@@ -124,7 +124,9 @@ func (p *Publisher) Start(ctx context.Context) error {
 		SetPingTimeout(min(p.cfg.KeepAlive, 10*time.Second)).
 		SetConnectTimeout(p.cfg.ConnectTimeout).
 		SetCleanSession(true).
-		SetOrderMatters(false).
+		// Specimens are queued in the order the lab sent them; the
+		// handler never blocks, so in-order delivery costs nothing.
+		SetOrderMatters(true).
 		SetAutoReconnect(true).
 		SetConnectRetry(true).
 		SetConnectRetryInterval(min(time.Second, p.cfg.MaxRetryInterval)).

@@ -135,6 +135,7 @@ func TestSpecimensInbound(t *testing.T) {
 	if got[0] != "S-1" || got[1] != "S-2" {
 		t.Fatalf("specimens %v, want [S-1 S-2]", got)
 	}
+	// In-order delivery: the three bad ones came before S-2.
 	if n := p.Stats().SpecimensRejected - rejectedBefore; n != 3 {
 		t.Fatalf("rejected %d, want 3", n)
 	}
