@@ -53,7 +53,7 @@ func TestCrossSections(t *testing.T) {
 		sp   reduce.Specimen
 		want float64
 	}{
-		{reduce.Specimen{Shape: reduce.ShapeRound, D0MM: 5.003}, 19.658523}, // 42CrMoS4 46NT71 reported S0
+		{reduce.Specimen{Shape: reduce.ShapeRound, D0MM: 5.003}, 19.658523},            // 42CrMoS4 46NT71 reported S0
 		{reduce.Specimen{Shape: reduce.ShapeRect, A0MM: 5.9913, B0MM: 20.101}, 120.43}, // S355 Zx2 reported S0 120.444 from its own rounding
 		{reduce.Specimen{Shape: reduce.ShapeTube, A0MM: 1, OuterD0MM: 10}, math.Pi * 9},
 		// 1 m of 1 mm copper wire (8.96 g/cm3) weighs pi/4 x 8.96 g.
