@@ -126,6 +126,7 @@ func (d *Daemon) run(ctx context.Context) (err error) {
 		}
 		d.sups = append(d.sups, s)
 		d.infos = append(d.infos, info)
+		s.pollHealth(runCtx)
 	}
 	defer func() {
 		for _, s := range d.sups {

@@ -98,7 +98,7 @@ func (l *lifecycle) handle(em detect.Emission) error {
 		return nil // events outside a test (e.g. idle noise) are not published
 	}
 	rel := ev
-	rel.TimeS = ev.TimeS - l.test.t0S
+	rel.TimeS = roundUS(ev.TimeS - l.test.t0S)
 	extra := map[string]any{}
 	if em.Hold != nil {
 		extra["force_N"] = em.Hold.ForceN
@@ -197,7 +197,7 @@ func (l *lifecycle) end(interrupted bool) error {
 		return fmt.Errorf("close test %s: %w", t.id, err)
 	}
 	// Move event times onto the test's axis.
-	shift := func(v float64) float64 { return v - t.t0S }
+	shift := func(v float64) float64 { return roundUS(v - t.t0S) }
 	for i := range det.Events {
 		det.Events[i].TimeS = shift(det.Events[i].TimeS)
 	}
@@ -226,3 +226,8 @@ func newTestID(started time.Time, db *store.DB) string {
 		id = fmt.Sprintf("%s-%d", base, n)
 	}
 }
+
+// roundUS rounds a time on the test's axis to the microsecond, so the
+// subtraction of two large epoch-relative times leaves no binary noise in
+// published documents (no sensor here resolves a microsecond).
+func roundUS(s float64) float64 { return math.Round(s*1e6) / 1e6 }
