@@ -1,11 +1,13 @@
 package lineserial
 
 import (
+	"context"
 	"sync"
 	"testing"
 	"time"
 
 	"framed/drivers"
+	"framed/drivers/builtin"
 	"framed/drivers/conformance"
 	"framed/drivers/serialtest"
 )
@@ -92,4 +94,14 @@ func TestConformance(t *testing.T) {
 		Fault:   conformance.FaultReopens,
 		Timeout: 5 * time.Second,
 	})
+}
+
+func TestRegisteredAsBuiltin(t *testing.T) {
+	f, ok := builtin.Lookup(DriverName)
+	if !ok {
+		t.Fatalf("%q not registered", DriverName)
+	}
+	if info, _ := f().Describe(context.Background()); info.Driver != DriverName {
+		t.Errorf("registered factory describes %q", info.Driver)
+	}
 }

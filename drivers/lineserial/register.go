@@ -1,0 +1,12 @@
+package lineserial
+
+import (
+	"framed/drivers"
+	"framed/drivers/builtin"
+)
+
+// The framed binary imports this package for its registration, so the
+// daemon can start the driver by the name "lineserial".
+func init() {
+	builtin.Register(DriverName, func() drivers.Driver { return New() })
+}
