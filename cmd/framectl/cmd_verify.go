@@ -9,14 +9,12 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"net"
 	"os"
-	"path/filepath"
 	"slices"
 	"strconv"
 	"strings"
-	"time"
 
+	"framed/daemon"
 	"framed/reduce/verify"
 )
 
@@ -47,7 +45,7 @@ func runVerify(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	asJSON := fs.Bool("json", false, "print the report as one JSON document")
 	forces := fs.String("forces", "", "guided verification: reference forces in N, comma separated")
 	decreasing := fs.Bool("decreasing", true, "guided verification: read the decreasing run after series 3 (reversibility)")
-	state := fs.String("state", "", "state directory of the running framed (default $FRAMED_STATE)")
+	state := stateFlag(fs)
 	fs.Usage = func() {
 		fmt.Fprintln(stderr, "usage: framectl verify --readings FILE.csv --resolution-N R --zero-after-N Z [--json]")
 		fmt.Fprintln(stderr, "       framectl verify --extensometer --readings FILE.csv --resolution-mm R [--json]")
@@ -116,7 +114,6 @@ func runVerify(ctx context.Context, args []string, stdout, stderr io.Writer) err
 		if err != nil {
 			return err
 		}
-		defer src.Close()
 		if plan == nil {
 			return fmt.Errorf("%w: a guided verification needs --forces F1,F2,... (reference forces in N)", errUsage)
 		}
@@ -329,64 +326,39 @@ func guidedForce(ctx context.Context, src forceReader, in io.Reader, out io.Writ
 	return g, nil
 }
 
-// socketForce reads the calibrated force from a running framed through its
-// control socket (<state>/framed.sock): one JSON line {"op":"read"} per
-// reading, answered by {"ok":true,"data":{"calibrated_mean":N,...}}.
-type socketForce struct {
-	conn net.Conn
-	r    *bufio.Reader
+// daemonForce reads the calibrated force from the running framed behind a
+// state directory: the mean of its latest readings, through the control
+// socket's "read" op.
+type daemonForce struct {
+	dir string
 }
 
 // liveSamples is how many recent samples the daemon averages per reading.
 const liveSamples = 200
 
-// controlSocketName is the daemon's control socket in its state directory.
-const controlSocketName = "framed.sock"
-
-// dialLiveForce connects to the daemon behind stateDir.
-func dialLiveForce(ctx context.Context, stateDir string) (*socketForce, error) {
+// dialLiveForce checks that a framed answers behind stateDir.
+func dialLiveForce(ctx context.Context, stateDir string) (daemonForce, error) {
 	if stateDir == "" {
-		return nil, fmt.Errorf("%w (no --state and FRAMED_STATE unset)", errNoDaemonForVerify)
+		return daemonForce{}, fmt.Errorf("%w (no --state and FRAMED_STATE unset)", errNoDaemonForVerify)
 	}
-	sock := filepath.Join(stateDir, controlSocketName)
-	d := net.Dialer{Timeout: 2 * time.Second}
-	c, err := d.DialContext(ctx, "unix", sock)
-	if err != nil {
-		return nil, fmt.Errorf("%w (nothing answers on %s)", errNoDaemonForVerify, sock)
+	if err := callDaemon(ctx, stateDir, daemon.Request{Op: "status"}, nil); err != nil {
+		if errors.Is(err, daemon.ErrNotRunning) {
+			return daemonForce{}, fmt.Errorf("%w (%v)", errNoDaemonForVerify, err)
+		}
+		return daemonForce{}, fmt.Errorf("framed in %s: %w", stateDir, err)
 	}
-	return &socketForce{conn: c, r: bufio.NewReader(c)}, nil
+	return daemonForce{dir: stateDir}, nil
 }
 
-func (s *socketForce) Read(ctx context.Context) (float64, error) {
-	deadline := time.Now().Add(10 * time.Second)
-	if dl, ok := ctx.Deadline(); ok && dl.Before(deadline) {
-		deadline = dl
+func (d daemonForce) Read(ctx context.Context) (float64, error) {
+	var r struct {
+		CalibratedMean *float64 `json:"calibrated_mean"`
 	}
-	s.conn.SetDeadline(deadline)
-	if err := json.NewEncoder(s.conn).Encode(map[string]any{"op": "read", "samples": liveSamples}); err != nil {
-		return 0, fmt.Errorf("framed control: %w", err)
+	if err := callDaemon(ctx, d.dir, daemon.Request{Op: "read", Samples: liveSamples}, &r); err != nil {
+		return 0, fmt.Errorf("framed: %w", err)
 	}
-	line, err := s.r.ReadBytes('\n')
-	if err != nil {
-		return 0, fmt.Errorf("framed control: %w", err)
+	if r.CalibratedMean == nil || math.IsNaN(*r.CalibratedMean) || math.IsInf(*r.CalibratedMean, 0) {
+		return 0, errors.New("framed answered without a calibrated force")
 	}
-	var resp struct {
-		OK    bool   `json:"ok"`
-		Error string `json:"error"`
-		Data  struct {
-			CalibratedMean *float64 `json:"calibrated_mean"`
-		} `json:"data"`
-	}
-	if err := json.Unmarshal(line, &resp); err != nil {
-		return 0, fmt.Errorf("framed control: malformed answer %q: %w", line, err)
-	}
-	if !resp.OK {
-		return 0, fmt.Errorf("framed control: %q", resp.Error)
-	}
-	if resp.Data.CalibratedMean == nil || math.IsNaN(*resp.Data.CalibratedMean) || math.IsInf(*resp.Data.CalibratedMean, 0) {
-		return 0, fmt.Errorf("framed control: answer %q has no calibrated force", line)
-	}
-	return *resp.Data.CalibratedMean, nil
+	return *r.CalibratedMean, nil
 }
-
-func (s *socketForce) Close() error { return s.conn.Close() }

@@ -14,6 +14,7 @@ import (
 	"strings"
 	"testing"
 
+	"framed/daemon"
 	"framed/reduce/verify"
 )
 
@@ -159,7 +160,7 @@ func TestVerifyUsage(t *testing.T) {
 		{[]string{"verify", "--readings", csv, "--resolution-N", "1", "--zero-after-N", "0", "extra"}, 2, "unexpected argument"},
 		{[]string{"verify", "--readings", csv, "--resolution-N", "1", "--zero-after-N", "0", "--forces", "5"}, 2, "--forces is for a guided"},
 		{[]string{"verify", "--resolution-N", "1"}, 1, "use --readings FILE.csv, or start framed"},
-		{[]string{"verify", "--resolution-N", "1", "--state", t.TempDir()}, 1, "nothing answers on"},
+		{[]string{"verify", "--resolution-N", "1", "--state", t.TempDir()}, 1, "no answer on"},
 		{[]string{"verify", "--readings", "no-such.csv", "--resolution-N", "1", "--zero-after-N", "0"}, 1, "no-such.csv"},
 		{[]string{"verify", "--readings", csv, "--resolution-N", "-1", "--zero-after-N", "0"}, 1, "bad resolution"},
 	}
@@ -257,26 +258,38 @@ func TestVerifyGuidedOverSocketIntegration(t *testing.T) {
 		t.Fatal(err)
 	}
 	t.Cleanup(func() { os.RemoveAll(dir) })
-	ln, err := net.Listen("unix", filepath.Join(dir, controlSocketName))
+	ln, err := net.Listen("unix", filepath.Join(dir, daemon.ControlSocketName))
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer ln.Close()
 	// Each series reads 1 % high at 1000 N: q = +1.0 % (class 1 by the
-	// ISO 7500-1 table, from memory); then 0.5 N after unloading.
+	// ISO 7500-1 table, from memory); then 0.5 N after unloading. The
+	// stand-in answers one request per connection, as daemon.Call sends
+	// them.
 	answers := []string{"1010", "1010", "1010", "1005", "0.5"}
 	go func() {
-		c, err := ln.Accept()
-		if err != nil {
-			return
-		}
-		defer c.Close()
-		r := bufio.NewReader(c)
-		for _, a := range answers {
-			if _, err := r.ReadBytes('\n'); err != nil {
+		for {
+			c, err := ln.Accept()
+			if err != nil {
 				return
 			}
-			fmt.Fprintf(c, `{"ok":true,"data":{"raw_mean":1,"raw_sd":0,"samples":200,"calibrated_mean":%s}}`+"\n", a)
+			line, err := bufio.NewReader(c).ReadBytes('\n')
+			var req struct {
+				Op string `json:"op"`
+			}
+			if err == nil && json.Unmarshal(line, &req) == nil {
+				switch {
+				case req.Op == "status":
+					fmt.Fprintln(c, `{"ok":true,"data":{"state":"idle"}}`)
+				case req.Op == "read" && len(answers) > 0:
+					fmt.Fprintf(c, `{"ok":true,"data":{"raw_mean":1,"raw_sd":0,"samples":200,"calibrated_mean":%s}}`+"\n", answers[0])
+					answers = answers[1:]
+				default:
+					fmt.Fprintln(c, `{"ok":false,"error":"unexpected request"}`)
+				}
+			}
+			c.Close()
 		}
 	}()
 	old := verifyStdin
