@@ -27,6 +27,9 @@ func TestVerifyGoldenCLI(t *testing.T) {
 		t.Fatalf("no golden cases: %v", err)
 	}
 	for _, dir := range dirs {
+		if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
+			continue // README.md
+		}
 		t.Run(filepath.Base(dir), func(t *testing.T) {
 			argsB, err := os.ReadFile(filepath.Join(dir, "args"))
 			if err != nil {
