@@ -7,62 +7,55 @@ import (
 )
 
 // breakRingCap bounds the break window's memory: 4096 samples cover the
-// default 50 ms window up to 80 kHz. If it fills, the oldest entries go
-// and the window only gets shorter (a break must then fall faster).
+// default 50 ms window up to 80 kHz.
 const breakRingCap = 4096
 
-// breakWatch keeps the running maximum of the force over the last
-// BreakWindowS as a monotonic queue: amortised O(1) per sample, no
-// allocation after init.
+// breakWatch keeps the running maxima of force, extension and crosshead
+// over the break window.
 type breakWatch struct {
-	ring    []sample
-	head, n int
+	f, ext, xh maxQueue
 }
 
-func (w *breakWatch) init(capacity int) { w.ring = make([]sample, capacity) }
-func (w *breakWatch) reset()            { w.head, w.n = 0, 0 }
-
-func (w *breakWatch) at(i int) *sample { return &w.ring[(w.head+i)%len(w.ring)] }
-
-func (w *breakWatch) push(s sample) {
-	for w.n > 0 && w.at(w.n-1).f <= s.f {
-		w.n--
-	}
-	if w.n == len(w.ring) {
-		w.head = (w.head + 1) % len(w.ring)
-		w.n--
-	}
-	*w.at(w.n) = s
-	w.n++
+func (w *breakWatch) init(capacity int) {
+	w.f.init(capacity)
+	w.ext.init(capacity)
+	w.xh.init(capacity)
 }
 
-func (w *breakWatch) dropBefore(tS float64) {
-	for w.n > 0 && w.at(0).t < tS {
-		w.head = (w.head + 1) % len(w.ring)
-		w.n--
-	}
+func (w *breakWatch) reset() {
+	w.f.reset()
+	w.ext.reset()
+	w.xh.reset()
 }
 
 // watchBreak looks for a fall, within the break window, of at least
-// BreakDropFraction of the running peak force (above the baseline). A
-// fall during which the displacement recovers elastically is an unloading
-// by the operator, not a break. The filtered force already ignores single
-// spikes, so the break is proved by the sample after the first fallen
-// one. It reports whether the test ended.
+// BreakDropFraction of the running peak force (above the baseline), that
+// is final (fallen). A fall during which the displacement recovers
+// elastically is an unloading by the operator (or the swing of a hanging
+// weight), not a break. The
+// filtered force already ignores single spikes, so the break is proved by
+// the sample after the first fallen one. It reports whether the test
+// ended.
 func (d *Detector) watchBreak(fs sample, rawT float64) bool {
 	r := &d.run
 	w := &d.brk
-	windowS := math.Max(d.cfg.BreakWindowS, 2.5*d.dtS)
-	w.dropBefore(fs.t - windowS)
-	if w.n > 0 {
-		top := *w.at(0)
+	from := fs.t - math.Max(d.cfg.BreakWindowS, 2.5*d.dtS)
+	w.f.dropBefore(from)
+	w.ext.dropBefore(from)
+	w.xh.dropBefore(from)
+	if w.f.n > 0 {
+		topS, topN := w.f.at(0)
 		need := d.cfg.BreakDropFraction * (r.peakN - r.baseN)
-		if top.f-fs.f >= need && !d.recovered(top, fs) {
+		if topN-fs.f >= need && !d.recovered(fs) && d.fallen(fs) {
 			// Date the break at the last reading still near the top of
 			// the window: the last one before the force fell.
-			atS := top.t
-			for i := 1; i < w.n && w.at(i).f >= top.f-need/8; i++ {
-				atS = w.at(i).t
+			atS := topS
+			for i := 1; i < w.f.n; i++ {
+				tS, v := w.f.at(i)
+				if v < topN-need/8 {
+					break
+				}
+				atS = tS
 			}
 			if r.phase == holding {
 				d.closeHold(r.lastInS)
@@ -73,22 +66,48 @@ func (d *Detector) watchBreak(fs sample, rawT float64) bool {
 			return true
 		}
 	}
-	w.push(fs)
+	w.f.push(fs.t, fs.f)
+	w.ext.push(fs.t, fs.ext)
+	w.xh.push(fs.t, fs.xh)
 	if fs.f > r.peakN {
 		r.peakN = fs.f
 	}
 	return false
 }
 
-// recovered tells whether the displacement (extension, else crosshead)
-// went back by more than the set threshold between two readings.
-func (d *Detector) recovered(before, after sample) bool {
-	thr := d.run.setThrMM
-	if finite(before.ext) && finite(after.ext) {
-		return after.ext-before.ext <= -thr
+// breakResidualFraction of the peak force (above the baseline) is where a
+// fast fall counts as having reached nothing. A swinging weight's trough
+// stays above it unless the weight was dropped, which is not a load step.
+const breakResidualFraction = 0.05
+
+// fallen tells whether a fast fall is final: the force is down to nothing,
+// or the extensometer is off and the crosshead, still read, did not spring
+// back (a machine pulling on a broken specimen, before the force is fully
+// gone). Without that, a fall that stops short of nothing is a swing.
+func (d *Detector) fallen(fs sample) bool {
+	r := &d.run
+	if fs.f-r.baseN <= breakResidualFraction*(r.peakN-r.baseN) {
+		return true
 	}
-	if finite(before.xh) && finite(after.xh) {
-		return after.xh-before.xh <= -thr
+	return !finite(fs.ext) && finite(fs.xh)
+}
+
+// recovered tells whether the displacement (extension, else crosshead)
+// now stands more than the set threshold below its highest reading in the
+// window: the specimen sprang back, so it is still in one piece.
+func (d *Detector) recovered(fs sample) bool {
+	thr := d.run.setThrMM
+	w := &d.brk
+	if finite(fs.ext) {
+		if w.ext.n == 0 {
+			return false
+		}
+		_, top := w.ext.at(0)
+		return top-fs.ext >= thr
+	}
+	if finite(fs.xh) && w.xh.n > 0 {
+		_, top := w.xh.at(0)
+		return top-fs.xh >= thr
 	}
 	return false
 }

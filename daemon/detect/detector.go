@@ -92,7 +92,9 @@ func (d *Detector) State() State { return d.state }
 
 // StartTimeS is when the current test really began (where the force left
 // the idle baseline), or NaN before a start. It is never earlier than
-// PreTriggerS before the sample that triggered the start.
+// PreTriggerS before the newest sample of the Step that emitted the start
+// (Emission.ProvedAtS), so a daemon keeping PreTriggerS of history behind
+// its newest sample can always store the test from its start.
 func (d *Detector) StartTimeS() float64 {
 	if d.state == Idle {
 		return math.NaN()

@@ -152,23 +152,25 @@ func (d *Detector) seek(fs sample, rawT float64) {
 }
 
 // settled tells whether the window's force scatters about a line by no
-// more than the noise, drifts by less than the hold band, and the
-// crosshead (when read) stands still.
+// more than the noise and has stopped drifting. A drift up to the hold
+// band is allowed only when the crosshead is read and stands still: that
+// is relaxation at a fixed position. Without a crosshead (dead weights)
+// the force of a hold is constant, and a drift is a swing not yet died
+// out, possibly aliased by a slow sample rate into a slow wave.
 func (d *Detector) settled(w *block) bool {
 	r := &d.run
 	if w.f.n < 8 {
 		return false
 	}
-	if w.f.residStd() > d.cfg.SettleNoiseK*r.sigmaN {
+	noise := d.cfg.SettleNoiseK * r.sigmaN
+	if w.f.residStd() > noise {
 		return false
 	}
-	if math.Abs(w.f.slope())*d.cfg.SettleMinS > r.holdBandN {
-		return false
+	drift := math.Abs(w.f.slope()) * d.cfg.SettleMinS
+	if w.xh.n >= w.f.n/2 {
+		return drift <= r.holdBandN && math.Abs(w.xh.slope()) <= d.cfg.HoldCrossheadMaxMMPerS
 	}
-	if w.xh.n >= w.f.n/2 && math.Abs(w.xh.slope()) > d.cfg.HoldCrossheadMaxMMPerS {
-		return false
-	}
-	return true
+	return drift <= 2*noise
 }
 
 // onSettled classes a settled reading as a hold or an unloaded rest.

@@ -25,21 +25,23 @@ func (m *median3) push(s sample) (sample, bool) {
 		m.n++
 		return sample{}, false
 	}
-	out := m.b
-	out.f = med(m.a.f, m.b.f, s.f)
+	// The median sample lends its force and its displacements together,
+	// so that they stay a consistent pair; the time stays the middle one.
+	out := medSample(&m.a, &m.b, &s)
+	out.t = m.b.t
 	m.a, m.b = m.b, s
 	return out, true
 }
 
-func med(x, y, z float64) float64 {
-	if x > y {
+func medSample(x, y, z *sample) sample {
+	if x.f > y.f {
 		x, y = y, x
 	}
-	if y > z {
+	if y.f > z.f {
 		y = z
 	}
-	if x > y {
-		return x
+	if x.f > y.f {
+		return *x
 	}
-	return y
+	return *y
 }

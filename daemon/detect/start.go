@@ -21,6 +21,7 @@ type idleStats struct {
 	aboveN            int
 	haveQuiet         bool
 	lastNear          bool
+	varN              int
 }
 
 func (s *idleStats) reset() { *s = idleStats{extRef: math.NaN(), xhRef: math.NaN()} }
@@ -48,6 +49,7 @@ func (d *Detector) learn(x sample) {
 		if prevNear {
 			df := x.f - s.lastF
 			s.varF += a * (df*df/2 - s.varF)
+			s.varN++
 		}
 		s.base += a * (x.f - s.base)
 	}
@@ -91,13 +93,30 @@ func (d *Detector) sigmaN() float64 {
 	if d.cfg.NoiseFloorN > 0 {
 		return d.cfg.NoiseFloorN
 	}
-	return math.Max(math.Sqrt(d.idle.varF), minNoiseFraction*d.cfg.ForceRangeN)
+	s := &d.idle
+	sig := math.Sqrt(s.varF)
+	if s.varN > 0 {
+		// Widen an estimate from few readings by its own uncertainty
+		// (about 1/sqrt(2n) relative for a standard deviation): a short
+		// idle period must not make the settle test too strict.
+		nEff := float64(s.varN)
+		if d.dtS > 0 {
+			nEff = math.Min(nEff, 2*idleTauS/d.dtS)
+		}
+		sig *= 1 + 2/math.Sqrt(nEff)
+	}
+	return math.Max(sig, minNoiseFraction*d.cfg.ForceRangeN)
 }
 
 // startThresholdN is how far above the baseline the force must rise.
 func (d *Detector) startThresholdN() float64 {
 	return math.Max(d.cfg.StartFraction*d.cfg.ForceRangeN, d.cfg.StartNoiseK*d.sigmaN())
 }
+
+// quietNoiseK noise floors above the baseline is still "at rest" when
+// dating the start back: wide enough that noise on a short, poorly learnt
+// idle period rarely cuts the look-back short.
+const quietNoiseK = 5
 
 // watchStart looks for the force standing above the threshold for
 // StartSustainS (and two filtered samples), and dates the start back to
@@ -106,7 +125,7 @@ func (d *Detector) watchStart(fs sample, rawT float64) {
 	s := &d.idle
 	sig := d.sigmaN()
 	excess := fs.f - s.base
-	if excess <= 3*sig || !s.haveQuiet {
+	if excess <= quietNoiseK*sig || !s.haveQuiet {
 		s.lastQuietS = fs.t
 		s.haveQuiet = true
 	}
@@ -145,7 +164,7 @@ func (d *Detector) begin(fs sample, rawT float64) {
 	if r.setThrMM == 0 {
 		r.setThrMM = math.Max(6*math.Sqrt(s.varExt), minSetThresholdMM)
 	}
-	r.startS = math.Max(s.lastQuietS, fs.t-c.PreTriggerS)
+	r.startS = math.Max(s.lastQuietS, rawT-c.PreTriggerS)
 	if math.Abs(s.base) > c.TareToleranceFraction*c.ForceRangeN+4*sig {
 		d.flag(FlagForceNotTared)
 	}

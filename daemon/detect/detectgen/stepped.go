@@ -109,6 +109,7 @@ func (s Stepped) Generate() (reduce.Curve, SteppedTruth) {
 	k := 0
 	cycleMax := 0.0
 	trueExt := make([]float64, n)
+	plastic := make([]float64, n)
 	for i := 0; i < n; i++ {
 		ti := float64(i) * dt
 		for k+1 < len(segs) && ti >= segs[k+1].t0 {
@@ -159,6 +160,7 @@ func (s Stepped) Generate() (reduce.Curve, SteppedTruth) {
 		cv.ExtensionMM[i] = s.Sensor.ext(r, ext)
 		cv.CrossheadMM[i] = math.NaN() // dead weights: no crosshead
 		trueExt[i] = ext
+		plastic[i] = setMM + creepMM
 	}
 	// The truth of holds and unloads, from the plan.
 	for i, sg := range segs {
@@ -178,7 +180,10 @@ func (s Stepped) Generate() (reduce.Curve, SteppedTruth) {
 			if cycleMax > 0 {
 				tr.Unloads = append(tr.Unloads, UnloadTruth{SettleS: settle, AfterForceN: cycleMax,
 					SetMM: extAt(cv.TimeS, trueExt, settle) - extAt(cv.TimeS, trueExt, s.IdleS/2)})
-				if cycleMax > s.ElasticLimitN {
+				// Set comes from the highest force the wire really
+				// carried, swing included: a swinging weight can take
+				// it past the limit when its level does not.
+				if extAt(cv.TimeS, plastic, settle) > 0 {
 					if math.IsNaN(tr.SetFromN) {
 						tr.SetFromN = cycleMax
 					}

@@ -1,0 +1,50 @@
+package detect
+
+// maxQueue keeps the running maximum of a value over a sliding time
+// window as a monotonic queue: amortised O(1) per sample and no
+// allocation after init. If the ring fills, the oldest entries go and the
+// window only gets shorter.
+type maxQueue struct {
+	t, v    []float64
+	head, n int
+}
+
+func (q *maxQueue) init(capacity int) {
+	q.t, q.v = make([]float64, capacity), make([]float64, capacity)
+}
+
+func (q *maxQueue) reset() { q.head, q.n = 0, 0 }
+
+func (q *maxQueue) idx(i int) int { return (q.head + i) % len(q.t) }
+
+// push adds a reading; NaN readings are not pushed (no reading).
+func (q *maxQueue) push(tS, v float64) {
+	if v != v {
+		return
+	}
+	for q.n > 0 && q.v[q.idx(q.n-1)] <= v {
+		q.n--
+	}
+	if q.n == len(q.t) {
+		q.head = q.idx(1)
+		q.n--
+	}
+	j := q.idx(q.n)
+	q.t[j], q.v[j] = tS, v
+	q.n++
+}
+
+// dropBefore forgets readings older than tS.
+func (q *maxQueue) dropBefore(tS float64) {
+	for q.n > 0 && q.t[q.head] < tS {
+		q.head = q.idx(1)
+		q.n--
+	}
+}
+
+// at returns the i-th entry from the oldest: the maximum is at 0, later
+// entries are the maxima of ever later parts of the window.
+func (q *maxQueue) at(i int) (tS, v float64) {
+	j := q.idx(i)
+	return q.t[j], q.v[j]
+}
