@@ -11,12 +11,14 @@ const (
 	CheckE4Accuracy      = "accuracy"
 	CheckE4PerDecade     = "forces-per-decade"
 	CheckE4LowerLimit    = "lower-limit-resolution"
+	CheckE4Repeatability = "repeatability"
 	e4AccuracyPct        = 1.0 // ASTM E4: error within ±1 %
 	e4ForcesPerDecade    = 5   // ASTM E4-16 cl. 10: at least five forces per decade
 	e4ResolutionMultiple = 200 // ASTM E4-16 cl. 10: range no lower than 200 x resolution
 )
 
-// astmE4 fills the ASTM E4 fields of rep from its points.
+// astmE4 fills the ASTM E4 fields of rep from its points: accuracy,
+// repeatability, forces per decade and the lower limit by resolution.
 //
 // The accuracy criterion is applied to q, the error of the mean of the
 // increasing series, at every verified force. Forces per decade are counted
@@ -39,6 +41,17 @@ func astmE4(rep *ForceReport) {
 		}
 	}
 	rep.ASTME4Pass = acc.Pass
+
+	// FROM MEMORY: ASTM E4 also bounds the repeatability (the spread of
+	// the runs at one force) by 1.0 %. Reported as a check of its own;
+	// astm_e4_pass stays the accuracy criterion.
+	rpt := Check{Name: CheckE4Repeatability, Pass: true, Detail: fmt.Sprintf("b <= %g %% at every force read in two or more runs (limit from memory)", e4AccuracyPct)}
+	for _, p := range rep.Points {
+		if p.BPct != nil && !within(*p.BPct, e4AccuracyPct) {
+			rpt.Pass = false
+			rep.ASTME4Reasons = append(rep.ASTME4Reasons, fmt.Sprintf("%g N: repeatability b %.3f %% exceeds %g %%", p.ReferenceN, *p.BPct, e4AccuracyPct))
+		}
+	}
 
 	lowN := rep.Points[0].ReferenceN
 	topN := rep.Points[len(rep.Points)-1].ReferenceN
@@ -78,5 +91,5 @@ func astmE4(rep *ForceReport) {
 	if !low.Pass {
 		rep.ASTME4Reasons = append(rep.ASTME4Reasons, fmt.Sprintf("lowest force %g N is below %d x resolution = %g N: the range must start at or above it", lowN, e4ResolutionMultiple, minN))
 	}
-	rep.ASTME4Checks = []Check{acc, dec, low}
+	rep.ASTME4Checks = []Check{acc, rpt, dec, low}
 }

@@ -332,6 +332,16 @@ func TestASTME4(t *testing.T) {
 	if len(rep.ASTME4Reasons) != 3 {
 		t.Errorf("reasons %q, want one per failed check", rep.ASTME4Reasons)
 	}
+	// Repeatability (ASTM E4 limit 1 %, from memory): 995, 1000, 1005.1 N
+	// at 1000 N give b = 100 x 10.1 / 1000 = 1.01 %: fails, while
+	// q = 100 x 0.0333 / 1000 = 0.0033 % passes accuracy.
+	rep, err = ClassifyForce(full(1000, 995, 1000, 1005.1), 0.1, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !rep.ASTME4Pass || rep.ASTME4Checks[1].Name != CheckE4Repeatability || rep.ASTME4Checks[1].Pass {
+		t.Errorf("checks %+v: want accuracy pass, repeatability fail", rep.ASTME4Checks)
+	}
 }
 
 func TestClassifyForceErrors(t *testing.T) {
