@@ -13,6 +13,9 @@ import (
 // leaves too little, it falls back to from the end of yielding (or 1 %
 // plastic strain) to Agt, and says so in the method and the flags.
 
+// maxHardeningPoints caps the points of the n/K regression.
+const maxHardeningPoints = 20000
+
 type hardening struct {
 	ok           bool
 	n, k         float64
@@ -62,7 +65,23 @@ func (w *work) hardeningOver(lo, hi float64, yieldEnd int) hardening {
 	if yieldEnd > start {
 		start = yieldEnd
 	}
+	// The samples in range, thinned to at most maxHardeningPoints evenly
+	// spread ones: two logarithms a sample dominate long records, and past
+	// a few thousand points the line no longer changes.
+	a, b := -1, -1
 	for i := start; i <= w.iFm; i++ {
+		if x := w.strain[i]; finite(x) && x >= lo && x <= hi {
+			if a < 0 {
+				a = i
+			}
+			b = i
+		}
+	}
+	if a < 0 {
+		return h
+	}
+	stride := max(1, (b-a+1)/maxHardeningPoints)
+	for i := a; i <= b; i += stride {
 		x, st := w.strain[i], w.stress[i]
 		if !finite(x) || !finite(st) || x < lo || x > hi {
 			continue
