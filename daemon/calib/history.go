@@ -19,7 +19,8 @@ var bucketName = []byte("calibrations")
 
 // History is the stored record of every calibration, in the daemon's bbolt
 // database. Nothing is ever overwritten or deleted: a result can always name
-// the calibration it used.
+// the calibration it used. It is safe for concurrent use (bbolt serialises
+// writers and gives readers consistent snapshots).
 type History struct {
 	db *bbolt.DB
 }
