@@ -48,7 +48,10 @@ func DemoScript() []Specimen {
 				EMPa: 117000, Rp02MPa: 70, M: 4.545,
 				NeckPct: 42, FracturePct: 54, NeckDrop: 0.3,
 			},
-			Loading: Loading{Mode: ModeRate, CrossheadMMPerMin: 20, StiffnessNPerMM: 25000},
+			// Annealed copper bends over early: 1 mm/min through the
+			// elastic range, 25 mm/min from 0.3 % on.
+			Loading: Loading{Mode: ModeRate, CrossheadMMPerMin: 1, RateChangePct: 0.3,
+				CrossheadAfterMMPerMin: 25, StiffnessNPerMM: 25000},
 		},
 		{
 			ID: "OWF-2611-ST03", Shape: reduce.ShapeRound, D0MM: 12.5,

@@ -8,13 +8,16 @@ import "math"
 // strain (a yield drop, or necking on a soft frame) the specimen jumps
 // forward to the next strain that matches x, as a real one does.
 type rateRun struct {
-	tab     table
-	g       []float64 // x at each table point, mm
-	j       int       // table cell of the current state
-	vMMPerS float64
-	s0MM2   float64
-	leMM    float64
-	extOffE float64 // strain at which the extensometer comes off; +Inf never
+	tab      table
+	g        []float64 // x at each table point, mm
+	j        int       // table cell of the current state
+	vMMPerS  float64
+	v2MMPerS float64 // after the rate change
+	changeE  float64 // strain of the rate change; +Inf none
+	eNow     float64
+	s0MM2    float64
+	leMM     float64
+	extOffE  float64 // strain at which the extensometer comes off; +Inf never
 
 	xMM    float64
 	broken bool
@@ -26,12 +29,17 @@ func newRateRun(sp Specimen) *rateRun {
 	r := &rateRun{
 		tab:     newTable(c),
 		vMMPerS: sp.Loading.CrossheadMMPerMin / 60,
+		changeE: math.Inf(1),
 		s0MM2:   sp.CrossSectionMM2(),
 		leMM:    sp.leMM(),
 		extOffE: math.Inf(1),
 	}
 	if p := sp.Loading.ExtensometerOffPct; p > 0 {
 		r.extOffE = p / 100
+	}
+	if p := sp.Loading.RateChangePct; p > 0 {
+		r.changeE = p / 100
+		r.v2MMPerS = sp.Loading.CrossheadAfterMMPerMin / 60
 	}
 	lc, k := sp.lcMM(), sp.Loading.StiffnessNPerMM
 	r.g = make([]float64, len(r.tab.e))
@@ -43,7 +51,11 @@ func newRateRun(sp Specimen) *rateRun {
 
 // step advances test time by dtS and returns the true state.
 func (r *rateRun) step(dtS float64) (sample, bool) {
-	r.xMM += r.vMMPerS * dtS
+	v := r.vMMPerS
+	if r.eNow >= r.changeE {
+		v = r.v2MMPerS
+	}
+	r.xMM += v * dtS
 	n := r.tab.last()
 	for r.j < n && r.g[r.j+1] < r.xMM {
 		r.j++
@@ -59,6 +71,7 @@ func (r *rateRun) step(dtS float64) (sample, bool) {
 	}
 	e := r.tab.e[r.j] + f*(r.tab.e[r.j+1]-r.tab.e[r.j])
 	s := r.tab.s[r.j] + f*(r.tab.s[r.j+1]-r.tab.s[r.j])
+	r.eNow = e
 	out := sample{forceN: s * r.s0MM2, extMM: e * r.leMM, crossMM: r.xMM}
 	if e >= r.extOffE {
 		r.extOff = true

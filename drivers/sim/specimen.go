@@ -52,6 +52,11 @@ type Loading struct {
 	Mode Mode `json:"mode"`
 	// CrossheadMMPerMin is the constant crosshead rate (rate mode).
 	CrossheadMMPerMin float64 `json:"crosshead_mm_per_min,omitempty"`
+	// RateChangePct, if set, is the engineering strain (%) past which the
+	// crosshead runs at CrossheadAfterMMPerMin: slow through the elastic
+	// range and yielding, faster after, as ISO 6892-1 allows.
+	RateChangePct          float64 `json:"rate_change_pct,omitempty"`
+	CrossheadAfterMMPerMin float64 `json:"crosshead_after_mm_per_min,omitempty"`
 	// StiffnessNPerMM is the load train's stiffness (frame, grips, load
 	// cell, hanger): the machine compliance is its inverse.
 	StiffnessNPerMM float64 `json:"stiffness_N_per_mm"`
@@ -164,6 +169,14 @@ func (s Specimen) Validate() error {
 	case ModeRate:
 		if !(l.CrossheadMMPerMin > 0 && l.CrossheadMMPerMin <= 1000) {
 			return wrap(fmt.Errorf("crosshead_mm_per_min = %v, want 0 < rate <= 1000", l.CrossheadMMPerMin))
+		}
+		if l.RateChangePct != 0 || l.CrossheadAfterMMPerMin != 0 {
+			if !(l.RateChangePct > 0 && l.RateChangePct < s.Material.FracturePct) {
+				return wrap(fmt.Errorf("rate_change_pct = %v, want 0 < strain < fracture_pct", l.RateChangePct))
+			}
+			if !(l.CrossheadAfterMMPerMin > 0 && l.CrossheadAfterMMPerMin <= 1000) {
+				return wrap(fmt.Errorf("crosshead_after_mm_per_min = %v, want 0 < rate <= 1000", l.CrossheadAfterMMPerMin))
+			}
 		}
 	case ModeDeadWeight:
 		if len(l.Steps) == 0 {
