@@ -22,11 +22,10 @@ func openDirect(_ *testing.T, s Suite) (drivers.Driver, *drivers.Process) {
 
 func openGRPC(t *testing.T, s Suite) (drivers.Driver, *drivers.Process) {
 	t.Helper()
-	client, server := plugin.TestPluginGRPCConn(t, false, drivers.PluginMap(s.New()))
-	t.Cleanup(func() {
-		client.Close()
-		server.Stop()
-	})
+	client, _ := plugin.TestPluginGRPCConn(t, false, drivers.PluginMap(s.New()))
+	// Close also stops the server, through go-plugin's controller; a
+	// second Stop here would race with that one.
+	t.Cleanup(func() { client.Close() })
 	raw, err := client.Dispense(drivers.PluginName)
 	if err != nil {
 		t.Fatalf("dispense: %v", err)
