@@ -49,36 +49,62 @@ func e2eSpecimens(t *testing.T) []sim.Specimen {
 	return out
 }
 
-// startDaemon runs framed with the sim driver against broker and returns
-// a function that stops it and waits.
-func startDaemon(t *testing.T, broker, stateDir string, specs []sim.Specimen) (stop func()) {
+// simConfig is the sim driver's configuration for specs: realtime at ten
+// times speed, so a test lasts a few seconds.
+func simConfig(t *testing.T, specs []sim.Specimen, loop bool) json.RawMessage {
 	t.Helper()
-	simCfg, err := json.Marshal(map[string]any{
+	b, err := json.Marshal(map[string]any{
 		"seed": 11, "rate_hz": 500, "speed": 10, "pace": "realtime", "pause_s": 1,
-		"loop": false, "specimens": specs,
+		"loop": loop, "specimens": specs,
 	})
 	if err != nil {
 		t.Fatal(err)
 	}
+	return b
+}
+
+// specimenOrder hands out the specimens in the sim's order and starts over
+// when the sim restarts, as the demo does.
+func specimenOrder(specs []sim.Specimen, loop bool) (next func() (reduce.Specimen, bool), restart func(string)) {
+	var mu sync.Mutex
+	i := 0
+	next = func() (reduce.Specimen, bool) {
+		mu.Lock()
+		defer mu.Unlock()
+		if i >= len(specs) && !loop {
+			return reduce.Specimen{}, false
+		}
+		sp := specs[i%len(specs)].Geometry()
+		i++
+		return sp, true
+	}
+	restart = func(string) {
+		mu.Lock()
+		i = 0
+		mu.Unlock()
+	}
+	return next, restart
+}
+
+// startDaemon runs framed with the sim driver against broker and returns
+// a function that stops it and waits.
+func startDaemon(t *testing.T, broker, stateDir string, specs []sim.Specimen) (stop func()) {
+	t.Helper()
 	cfg := daemon.Config{
 		Frame: "e2e", StateDir: stateDir, Broker: broker,
-		Drivers: []daemon.DriverConfig{{Name: "sim", Kind: "sim", Config: simCfg}},
+		Drivers: []daemon.DriverConfig{{Name: "sim", Kind: "sim", Config: simConfig(t, specs, false)}},
 	}
-	var mu sync.Mutex
-	next := 0
-	opt := daemon.Options{
-		Self:   os.Args[0],
-		Logger: slog.New(slog.NewTextHandler(testWriter{t}, &slog.HandlerOptions{Level: slog.LevelInfo})),
-		SpecimenFallback: func() (reduce.Specimen, bool) {
-			mu.Lock()
-			defer mu.Unlock()
-			if next >= len(specs) {
-				return reduce.Specimen{}, false
-			}
-			next++
-			return specs[next-1].Geometry(), true
-		},
-	}
+	next, restart := specimenOrder(specs, false)
+	stop, _ = runDaemon(t, cfg, daemon.Options{SpecimenFallback: next, OnDriverRestart: restart})
+	return stop
+}
+
+// runDaemon starts daemon.Run in the background, waits until it is ready,
+// and returns a stop function and the running daemon's control socket.
+func runDaemon(t *testing.T, cfg daemon.Config, opt daemon.Options) (stop func(), socket string) {
+	t.Helper()
+	opt.Self = os.Args[0]
+	opt.Logger = slog.New(slog.NewTextHandler(testWriter{t}, &slog.HandlerOptions{Level: slog.LevelInfo}))
 	ready := make(chan struct{})
 	opt.Ready = func(*daemon.Daemon) { close(ready) }
 	ctx, cancel := context.WithCancel(context.Background())
@@ -108,7 +134,7 @@ func startDaemon(t *testing.T, broker, stateDir string, specs []sim.Specimen) (s
 		})
 	}
 	t.Cleanup(stop)
-	return stop
+	return stop, filepath.Join(cfg.StateDir, daemon.ControlSocketName)
 }
 
 type testWriter struct{ t *testing.T }

@@ -187,7 +187,12 @@ func (s *supervisor) pollHealth(ctx context.Context) {
 func (s *supervisor) status() map[string]any {
 	s.mu.Lock()
 	defer s.mu.Unlock()
+	pid := 0
+	if s.proc != nil {
+		pid = s.proc.Pid()
+	}
 	return map[string]any{
+		"pid":  pid,
 		"name": s.cfg.Name, "kind": s.cfg.Kind, "path": s.cfg.Path,
 		"running": s.proc != nil, "starts": s.starts,
 		"ok": s.health.OK, "message": s.health.Message, "counters": s.health.Counters,
