@@ -8,10 +8,10 @@
 //	<root>/<frame>/specimens          inbound: a lab system queues the next specimen
 //
 // Delivery of results is driven by the store's outbox, which is the truth:
-// an item leaves the outbox only after the broker's PUBACK. The client's
-// own in-memory session store is a convenience; on every reconnect, and
-// after a restart of framed, everything still in the outbox is sent again
-// in order. A subscriber may therefore see a result twice and should
+// an item leaves the outbox only after the broker's PUBACK. The MQTT
+// client keeps no session store of its own (see noStore); on every
+// reconnect, and after a restart of framed, everything still in the outbox
+// is sent again in order. A subscriber may therefore see a result twice and should
 // de-duplicate by test_id and revision, both in the document. Nothing
 // acknowledged is lost, and nothing unacknowledged is forgotten.
 //

@@ -124,6 +124,7 @@ func (p *Publisher) Start(ctx context.Context) error {
 		SetPingTimeout(min(p.cfg.KeepAlive, 10*time.Second)).
 		SetConnectTimeout(p.cfg.ConnectTimeout).
 		SetCleanSession(true).
+		SetStore(noStore{}).
 		// Specimens are queued in the order the lab sent them; the
 		// handler never blocks, so in-order delivery costs nothing.
 		SetOrderMatters(true).
