@@ -5,6 +5,7 @@ import (
 	"errors"
 	"math"
 	"reflect"
+	"runtime"
 	"testing"
 	"time"
 
@@ -138,6 +139,7 @@ func TestStreamCancelWithoutReadingGRPC(t *testing.T) {
 	if _, err := d.Configure(ctx, []byte(`{"samples_per_batch": 100}`)); err != nil {
 		t.Fatal(err)
 	}
+	before := runtime.NumGoroutine()
 	for round := range 3 {
 		sctx, cancel := context.WithCancel(ctx)
 		ch, err := d.Stream(sctx)
@@ -155,6 +157,16 @@ func TestStreamCancelWithoutReadingGRPC(t *testing.T) {
 				t.Fatalf("round %d: stream still open 2 s after cancel", round)
 			}
 		}
+	}
+	// Both ends' stream goroutines (client reader, server handler, the
+	// driver's producer) must be gone soon after.
+	deadline := time.Now().Add(2 * time.Second)
+	for runtime.NumGoroutine() > before && time.Now().Before(deadline) {
+		time.Sleep(10 * time.Millisecond)
+	}
+	if n := runtime.NumGoroutine(); n > before {
+		buf := make([]byte, 1<<16)
+		t.Errorf("%d goroutines before streaming, %d after:\n%s", before, n, buf[:runtime.Stack(buf, true)])
 	}
 }
 
@@ -228,4 +240,21 @@ func mustSHA(t *testing.T, path string) string {
 		t.Fatal(err)
 	}
 	return sum
+}
+
+// A binary that never answers the handshake fails the launch once
+// StartTimeout has passed, and is not left running.
+func TestLaunchStartTimeout(t *testing.T) {
+	start := time.Now()
+	p, err := drivers.Launch(context.Background(), drivers.LaunchConfig{
+		Path: "/bin/sleep", Args: []string{"30"}, SHA256: mustSHA(t, "/bin/sleep"),
+		StartTimeout: 200 * time.Millisecond,
+	})
+	if err == nil {
+		p.Kill()
+		t.Fatal("Launch of a binary that never shakes hands succeeded")
+	}
+	if waited := time.Since(start); waited > 10*time.Second {
+		t.Errorf("Launch gave up only after %v", waited)
+	}
 }
