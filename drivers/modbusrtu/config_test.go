@@ -99,6 +99,8 @@ func TestStreamContractErrors(t *testing.T) {
 	cancel()
 	for range ch {
 	}
+	fake.mu.Lock()
+	defer fake.mu.Unlock()
 	if !fake.closed {
 		t.Error("client not closed after the stream ended")
 	}

@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"sync"
 	"testing"
 	"time"
 
@@ -20,6 +21,8 @@ import (
 // fakeClient answers from register maps and fails the first attempts of
 // a kind as scripted, recording every read.
 type fakeClient struct {
+	mu     sync.Mutex
+	down   bool // every read times out, as with the device switched off
 	regs   map[string]map[uint16]uint16
 	faults map[string][]error
 	reads  [][3]any
@@ -27,6 +30,11 @@ type fakeClient struct {
 }
 
 func (f *fakeClient) ReadRegisters(start, count uint16, input bool) ([]uint16, error) {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	if f.down {
+		return nil, modbus.ErrRequestTimedOut
+	}
 	kind := "holding"
 	if input {
 		kind = "input"
@@ -43,7 +51,18 @@ func (f *fakeClient) ReadRegisters(start, count uint16, input bool) ([]uint16, e
 	return out, nil
 }
 
-func (f *fakeClient) Close() error { f.closed = true; return nil }
+func (f *fakeClient) Close() error {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	f.closed = true
+	return nil
+}
+
+func (f *fakeClient) setDown(down bool) {
+	f.mu.Lock()
+	f.down = down
+	f.mu.Unlock()
+}
 
 var faultErrors = map[string]error{
 	"crc": modbus.ErrBadCRC, "timeout": modbus.ErrRequestTimedOut,
