@@ -1,13 +1,11 @@
 package detect
 
 import (
-	"math"
-
 	"framed/reduce"
 )
 
-// breakRingCap bounds the break window's memory: 4096 samples cover the
-// default 50 ms window up to 80 kHz.
+// breakRingCap bounds the break window's memory: 4096 samples (a power of
+// two) cover the default 50 ms window up to 80 kHz.
 const breakRingCap = 4096
 
 // breakWatch keeps the running maxima of force, extension and crosshead
@@ -39,7 +37,11 @@ func (w *breakWatch) reset() {
 func (d *Detector) watchBreak(fs sample, rawT float64) bool {
 	r := &d.run
 	w := &d.brk
-	from := fs.t - math.Max(d.cfg.BreakWindowS, 2.5*d.dtS)
+	windowS := 2.5 * d.dtS // at least two and a half sample intervals
+	if windowS < d.cfg.BreakWindowS {
+		windowS = d.cfg.BreakWindowS
+	}
+	from := fs.t - windowS
 	w.f.dropBefore(from)
 	w.ext.dropBefore(from)
 	w.xh.dropBefore(from)

@@ -4,6 +4,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"slices"
+	"strings"
 	"testing"
 
 	"framed/daemon/detect/detectgen"
@@ -208,5 +209,35 @@ func TestHandUnloadIsNotABreak(t *testing.T) {
 		if !slices.Equal(eventKinds(got), want) {
 			t.Errorf("%g Hz: events %v, want %v", rate, eventKinds(got), want)
 		}
+	}
+}
+
+// TestHangerWeight: the cell was tared without the hanger, which is hung
+// (20 N) before the first weight. With HangerN the returns to the hanger
+// alone are unloads, and the bracket is in the channel's readings.
+func TestHangerWeight(t *testing.T) {
+	c, _ := detectgen.Wire(50, 4).Generate()
+	const hangerN, hungS = 20.0, 1.5
+	for i, ts := range c.TimeS {
+		if ts >= hungS {
+			c.ForceN[i] += hangerN
+		}
+	}
+	got := Offline(c, Config{ForceRangeN: 1000, HangerN: hangerN})
+	want := "start hold hold unload hold hold unload hold unload hold hold hold break end"
+	if k := strings.Join(eventKinds(got), " "); k != want {
+		t.Fatalf("events %q, want %q", k, want)
+	}
+	if got.Events[0].TimeS > hungS+0.05 {
+		t.Errorf("start %.2f s, want when the hanger went on (%.1f s)", got.Events[0].TimeS, hungS)
+	}
+	el := got.ElasticLimit
+	if el == nil || el.NoSetUpToN == nil || el.SetFromN == nil ||
+		math.Abs(*el.NoSetUpToN-420) > 0.5 || math.Abs(*el.SetFromN-520) > 0.5 {
+		t.Errorf("elastic limit %+v, want 420..520 N as read (400..500 N of weights on a 20 N hanger)", el)
+	}
+	// Without HangerN the hanger alone looks like a load: no unloads.
+	if got := Offline(c, Config{ForceRangeN: 1000}); len(got.Unloads) != 0 {
+		t.Errorf("unloads %+v without HangerN", got.Unloads)
 	}
 }

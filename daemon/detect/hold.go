@@ -70,7 +70,11 @@ func (d *Detector) follow(fs sample, rawT float64) {
 	if fs.f > r.cyclePeakN {
 		r.cyclePeakN = fs.f
 	}
-	gap := fs.t-r.prevS > math.Max(d.cfg.SettleMinS, 10*d.dtS)
+	gapS := 10 * d.dtS
+	if gapS < d.cfg.SettleMinS {
+		gapS = d.cfg.SettleMinS
+	}
+	gap := fs.t-r.prevS > gapS
 	r.prevS = fs.t
 	if r.phase == seeking {
 		if gap {

@@ -7,15 +7,18 @@ package detect
 type maxQueue struct {
 	t, v    []float64
 	head, n int
+	mask    int
 }
 
+// init sizes the ring; capacity must be a power of two.
 func (q *maxQueue) init(capacity int) {
 	q.t, q.v = make([]float64, capacity), make([]float64, capacity)
+	q.mask = capacity - 1
 }
 
 func (q *maxQueue) reset() { q.head, q.n = 0, 0 }
 
-func (q *maxQueue) idx(i int) int { return (q.head + i) % len(q.t) }
+func (q *maxQueue) idx(i int) int { return (q.head + i) & q.mask }
 
 // push adds a reading; NaN readings are not pushed (no reading).
 func (q *maxQueue) push(tS, v float64) {
