@@ -2,6 +2,7 @@ package publish
 
 import (
 	"encoding/json"
+	"math"
 	"testing"
 	"time"
 
@@ -94,5 +95,28 @@ func TestEventsIntegration(t *testing.T) {
 	m := sub.next(t, 10*time.Second)
 	if m.payload != `{"test_id":"T-1","kind":"break","time_s":93.25,"force_N":41230.5}` {
 		t.Fatalf("event payload %s", m.payload)
+	}
+}
+
+// Live readings: the first goes out as one line of JSON with NaN left
+// out; the rest within the throttle period are dropped.
+func TestLiveIntegration(t *testing.T) {
+	e := startEmbedded(t)
+	sub := subscribe(t, e.URL(), "framed/frame-a/live")
+	p := startPublisher(t, e.URL(), nil, nil)
+	waitFor(t, "publisher to connect", p.connected)
+	began := time.Now()
+	for i := 0; i < 100; i++ {
+		p.Live(Reading{TimeS: 12.5 + float64(i)*1e-3, ForceN: 1520.25, ExtensionMM: math.NaN(), CrossheadMM: 0.75})
+	}
+	took := time.Since(began)
+	m := sub.next(t, 10*time.Second)
+	if m.payload != `{"time_s":12.5,"force_N":1520.25,"crosshead_mm":0.75}` {
+		t.Fatalf("live payload %s", m.payload)
+	}
+	// At 5 Hz at most one reading per started 200 ms goes out.
+	allowed := int64(took/(200*time.Millisecond)) + 1
+	if s := p.Stats(); s.LiveSent+s.LiveDropped != 100 || s.LiveSent > allowed {
+		t.Fatalf("stats %+v in %v, at most %d may pass", s, took, allowed)
 	}
 }

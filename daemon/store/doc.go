@@ -29,6 +29,9 @@
 // Options.LockTimeout); retention's byte budget counts stored chunk bytes,
 // not the file size (bbolt reuses freed pages but never shrinks the file).
 //
-// Tests: the power-cut test kills a child writer process 5 times by default;
-// set FRAMED_LONG=1 for the long campaign (50 kills).
+// Tests: the power-cut test kills a child writer process with SIGKILL 5
+// times by default; set FRAMED_LONG=1 for the long campaign (50 kills). A
+// killed process is not a real power loss (the kernel's page cache
+// survives it); what covers that is bbolt's fdatasync before each commit
+// returns, which holds as far as the disk honours cache flushes.
 package store
