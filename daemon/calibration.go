@@ -100,19 +100,22 @@ func (d *Daemon) tare(req Request) (any, error) {
 	if err != nil {
 		return nil, err
 	}
-	prev := calib.Identity
-	if c, ok, err := d.cal.Current(ch); err != nil {
+	// A tare keeps the span in force and only moves its zero.
+	var c calib.Calibration
+	if cur, ok, err := d.cal.Current(ch); err != nil {
 		return nil, err
 	} else if ok {
-		prev = c.Model
-	}
-	c, err := calib.NewTare(ch, time.Now().UTC(), prev, w)
-	if err != nil {
+		c, err = calib.TareOn(cur, time.Now().UTC(), w)
+		if err != nil {
+			return nil, err
+		}
+	} else if c, err = calib.NewTare(ch, time.Now().UTC(), calib.Identity, w); err != nil {
 		return nil, err
 	}
 	if err := d.cal.Save(c); err != nil {
 		return nil, err
 	}
+	d.calibrationChanged()
 	d.log.Info("tared", "channel", ch, "id", c.ID, "mean_raw", w.MeanRaw, "sd_raw", w.SDRaw)
 	return c, nil
 }
@@ -130,6 +133,7 @@ func (d *Daemon) storeCalibration(raw json.RawMessage) (any, error) {
 	if err := d.cal.Save(c); err != nil {
 		return nil, err
 	}
+	d.calibrationChanged()
 	d.log.Info("calibration stored", "channel", c.Channel, "id", c.ID, "kind", c.Kind)
 	return c, nil
 }
@@ -152,4 +156,11 @@ func classPct(s string) float64 {
 		return 0
 	}
 	return v
+}
+
+func (d *Daemon) calibrationChanged() {
+	select {
+	case d.calChanged <- struct{}{}:
+	default:
+	}
 }

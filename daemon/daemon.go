@@ -49,6 +49,9 @@ type Daemon struct {
 
 	brokerURL string
 	started   time.Time
+	// calChanged wakes the acquisition loop to reload calibrations at once
+	// after a tare or span, so no batch is converted with the old model.
+	calChanged chan struct{}
 
 	mu      sync.Mutex
 	state   string // idle | running | storage-error
@@ -80,7 +83,7 @@ func Run(ctx context.Context, cfg Config, opt Options) error {
 		}
 		opt.Self = self
 	}
-	d := &Daemon{cfg: cfg, opt: opt, log: opt.Logger, state: "idle", started: time.Now()}
+	d := &Daemon{cfg: cfg, opt: opt, log: opt.Logger, state: "idle", started: time.Now(), calChanged: make(chan struct{}, 1)}
 	d.spec = &specimenQueue{fallback: opt.SpecimenFallback}
 	if d.cfg.Specimen != nil && opt.SpecimenFallback == nil {
 		def := *d.cfg.Specimen
@@ -271,6 +274,8 @@ func (d *Daemon) loop(ctx context.Context, batches <-chan driverBatch, notes <-c
 				life.flag("data-gap")
 				d.log.Warn("driver stream broke", "driver", d.cfg.Drivers[n.driver].Name, "err", errString(n.err))
 			}
+		case <-d.calChanged:
+			cal = d.loadCalibrations()
 		case <-health.C:
 			for _, s := range d.sups {
 				s.pollHealth(ctx)
