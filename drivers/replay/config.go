@@ -33,6 +33,9 @@ const (
 	MinRateHz = 1
 	MaxRateHz = 10000
 	MaxSpeed  = 1000
+	// maxSpanS bounds a recording's time span (about three years), so
+	// stream times in ns stay far from overflow.
+	maxSpanS = 1e8
 )
 
 // Config is the replay driver's configuration (JSON).
@@ -158,6 +161,9 @@ func (s *settings) load() error {
 	dur := c.TimeS[c.Len()-1] - c.TimeS[0]
 	if !(dur > 0) {
 		return fmt.Errorf("%w: %q spans no time (all time_s %v)", ErrFile, s.Path, c.TimeS[0])
+	}
+	if dur > maxSpanS {
+		return fmt.Errorf("%w: %q spans %v s, more than %v s", ErrFile, s.Path, dur, float64(maxSpanS))
 	}
 	s.curve = c
 	s.idleHz = s.RateHz
