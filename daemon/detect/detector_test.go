@@ -241,3 +241,22 @@ func TestHangerWeight(t *testing.T) {
 		t.Errorf("unloads %+v without HangerN", got.Unloads)
 	}
 }
+
+// TestHangerAloneDoesNotEnd: hanging the empty hanger starts the test;
+// leaving it alone longer than EndHoldS before the first weight goes on
+// must not end it.
+func TestHangerAloneDoesNotEnd(t *testing.T) {
+	f := func(t float64) float64 {
+		switch {
+		case t < 2:
+			return 0
+		case t < 50:
+			return 20
+		}
+		return 220
+	}
+	got := Offline(synth(50, 70, 0.02, f, nil, nil), Config{ForceRangeN: 1000, EndHoldS: 30, HangerN: 20})
+	if k := strings.Join(eventKinds(got), " "); k != "start hold" {
+		t.Errorf("events %q, want the start and the hold under the first weight", k)
+	}
+}

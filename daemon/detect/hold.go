@@ -107,7 +107,9 @@ func (d *Detector) follow(fs sample, rawT float64) {
 	if finite(fs.ext) {
 		r.follExt.add(fs.t, fs.ext)
 	}
-	if r.phase == resting && fs.t-r.restStartS >= d.cfg.EndHoldS {
+	// Only a deliberate unload ends a test this way: a hanger hung alone
+	// at the start is not one.
+	if r.phase == resting && len(d.unloads) > 0 && fs.t-r.restStartS >= d.cfg.EndHoldS {
 		d.emit(reduce.Event{Kind: reduce.EventEnd, TimeS: fs.t}, rawT)
 		d.state = Ended
 	}
