@@ -98,7 +98,7 @@ func (w *work) yieldPoint() yieldPoint {
 	}
 	// Coarse end of the yield range: the stress rises a clear band above
 	// the lowest stress of the plateau so far (plateau serrations stay
-	// inside the band).
+	// inside the band), or clearly above ReH (slow hardening).
 	band := math.Max(0.03*y.reH, 10*w.noiseMPa)
 	low, iLow := math.Inf(1), -1
 	end := -1
@@ -107,7 +107,7 @@ func (w *work) yieldPoint() yieldPoint {
 		if !finite(s) {
 			continue
 		}
-		if iLow >= 0 && s > low+band {
+		if iLow >= 0 && (s > low+band || s > y.reH+m) {
 			end = j
 			break
 		}
@@ -169,7 +169,9 @@ func (w *work) yieldPoint() yieldPoint {
 			low, iLow = s, j
 		}
 	}
-	if iLow < 0 {
+	if iLow < 0 || low >= y.reH {
+		// Nothing below ReH after the transient: its dip is the only
+		// minimum, and so ReL.
 		y.reL, y.iL, y.transientOnly = dipMin, iDip, true
 	} else {
 		y.reL, y.iL = low, iLow

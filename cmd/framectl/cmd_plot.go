@@ -59,11 +59,14 @@ func runPlot(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	if err != nil {
 		return err
 	}
+	opt, err := geo.options()
+	if err != nil {
+		return err
+	}
 	c, err := readCurveFile(src)
 	if err != nil {
 		return err
 	}
-	opt := geo.options()
 	res, err := reduce.Reduce(c, sp, detectOffline(c), opt)
 	if err != nil {
 		return fmt.Errorf("%s: %w", src, err)

@@ -42,11 +42,15 @@ func runReduce(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	if err != nil {
 		return err
 	}
+	opt, err := geo.options()
+	if err != nil {
+		return err
+	}
 	c, err := readCurveFile(pos[0])
 	if err != nil {
 		return err
 	}
-	res, err := reduce.Reduce(c, sp, detectOffline(c), geo.options())
+	res, err := reduce.Reduce(c, sp, detectOffline(c), opt)
 	if err != nil {
 		return fmt.Errorf("%s: %w", pos[0], err)
 	}

@@ -55,7 +55,7 @@ func TestReduceCommandJSON(t *testing.T) {
 	path := writeRambergOsgood(t, 68900, 276, 25, 20, 50)
 	var out, errb bytes.Buffer
 	// Flags after the file name, as the contract check calls it.
-	code := run([]string{"reduce", path, "--shape", "rect", "--a0", "2", "--b0", "10", "--L0", "50", "--Lu", "56", "--json"}, &out, &errb)
+	code := run([]string{"reduce", path, "--shape", "rect", "--a0", "2", "--b0", "10", "--L0", "50", "--Lu", "56", "--proof", "0.2,0.1", "--json"}, &out, &errb)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errb.String())
 	}
@@ -81,6 +81,10 @@ func TestReduceCommandJSON(t *testing.T) {
 	// 100 (56 - 50) / 50 = 12 %.
 	if v := qs["Rp0.2"]["value"].(float64); math.Abs(v/276-1) > 1e-3 {
 		t.Errorf("Rp0.2 %v, want 276", v)
+	}
+	// Rp0.1 from --proof: 0.002 (s/Rp0.2)^25 = 0.001.
+	if v, ok := qs["Rp0.1"]["value"].(float64); !ok || math.Abs(v/(276*math.Pow(0.5, 1.0/25))-1) > 1e-3 {
+		t.Errorf("Rp0.1 %v, want %v", qs["Rp0.1"], 276*math.Pow(0.5, 1.0/25))
 	}
 	if v := qs["A"]["value"].(float64); math.Abs(v-12) > 1e-9 {
 		t.Errorf("A %v, want 12", v)
@@ -123,6 +127,8 @@ func TestReduceCommandUsage(t *testing.T) {
 		{"reduce", path, "--S0", "20"},                          // no gauge length
 		{"reduce", path, path, "--S0", "20", "--L0", "50"},      // two files
 		{"reduce", path, "--S0", "20", "--L0", "50", "--bogus"}, // unknown flag
+		{"reduce", path, "--S0", "20", "--L0", "50", "--proof", "0.2,x"},
+		{"reduce", path, "--S0", "20", "--L0", "50", "--nk-range", "20-10"},
 	}
 	for _, args := range cases {
 		var out, errb bytes.Buffer

@@ -3,6 +3,8 @@ package main
 import (
 	"flag"
 	"fmt"
+	"math"
+	"strconv"
 	"strings"
 
 	"framed/reduce"
@@ -20,6 +22,7 @@ type geometryFlags struct {
 	id, material             string
 
 	forceClassPct, extClassPct, dimUMM, complianceMMPerN float64
+	proof, total, nk                                     string
 }
 
 func addGeometryFlags(fs *flag.FlagSet) *geometryFlags {
@@ -44,6 +47,9 @@ func addGeometryFlags(fs *flag.FlagSet) *geometryFlags {
 	fs.Float64Var(&g.extClassPct, "ext-class", 0, "extensometer class per ISO 9513, % (default 1)")
 	fs.Float64Var(&g.dimUMM, "dim-u", 0, "standard uncertainty of each measured dimension, mm (default 0.005)")
 	fs.Float64Var(&g.complianceMMPerN, "compliance", 0, "machine compliance for crosshead strain, mm/N (from a stored calibration)")
+	fs.StringVar(&g.proof, "proof", "", "plastic extensions for Rp, % of Le, comma-separated (default 0.2,1)")
+	fs.StringVar(&g.total, "total", "", "total extensions for Rt, % of Le, comma-separated (default 0.5)")
+	fs.StringVar(&g.nk, "nk-range", "", "engineering strain range for n and K, FROM-TO in % (default 10-20)")
 	return g
 }
 
@@ -72,13 +78,46 @@ func (g *geometryFlags) specimen() (reduce.Specimen, error) {
 	return sp, nil
 }
 
-func (g *geometryFlags) options() reduce.Options {
-	return reduce.Options{
+// options builds the reduction options; mistakes wrap errUsage.
+func (g *geometryFlags) options() (reduce.Options, error) {
+	opt := reduce.Options{
 		ForceClassPct:        g.forceClassPct,
 		ExtensometerClassPct: g.extClassPct,
 		DimensionUMM:         g.dimUMM,
 		ComplianceMMPerN:     g.complianceMMPerN,
 	}
+	var err error
+	if opt.ProofPct, err = pctList("proof", g.proof); err != nil {
+		return opt, err
+	}
+	if opt.TotalPct, err = pctList("total", g.total); err != nil {
+		return opt, err
+	}
+	if g.nk != "" {
+		from, to, ok := strings.Cut(g.nk, "-")
+		f, err1 := strconv.ParseFloat(strings.TrimSpace(from), 64)
+		t, err2 := strconv.ParseFloat(strings.TrimSpace(to), 64)
+		if !ok || err1 != nil || err2 != nil || !(t > f) || f < 0 {
+			return opt, fmt.Errorf("%w: --nk-range %q: want FROM-TO in %%, e.g. 10-20", errUsage, g.nk)
+		}
+		opt.HardeningFromPct, opt.HardeningToPct = f, t
+	}
+	return opt, nil
+}
+
+func pctList(name, s string) ([]float64, error) {
+	if s == "" {
+		return nil, nil
+	}
+	var out []float64
+	for _, f := range strings.Split(s, ",") {
+		v, err := strconv.ParseFloat(strings.TrimSpace(f), 64)
+		if err != nil || !(v > 0) || math.IsInf(v, 0) {
+			return nil, fmt.Errorf("%w: --%s %q: want positive percentages, comma-separated", errUsage, name, s)
+		}
+		out = append(out, v)
+	}
+	return out, nil
 }
 
 // parseInterleaved parses flags that may come before or after positional
