@@ -16,10 +16,9 @@ const DemoSpeed = 5
 // point, and a dead-weight test on annealed copper wire. A new slice on
 // every call.
 //
-// Handbook values are from the table of /work/shared/standards.md
-// ("Handbook values for demo materials"): 6061-T6 per the Aluminum
-// Association typical values, C11000 per Smithells Metals Reference Book
-// 8th ed. Table 22.7, 1018 per typical published datasheet values. The
+// Handbook values: 6061-T6 per the Aluminum Association typical values,
+// C11000 per Smithells Metals Reference Book 8th ed. Table 22.7, 1018 per
+// typical published datasheet values. The
 // mild steel's values are typical of hot-rolled structural steel, from
 // memory. The hardening exponents m and n, the necking onsets and drops
 // and the creep constants are ours, chosen to land Rm and the elongation

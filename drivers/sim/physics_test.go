@@ -14,7 +14,7 @@ var roSteel = Material{
 }
 
 // The Ramberg-Osgood proof-strength form e = s/E + 0.002 (s/Rp0.2)^m
-// (NACA TN 902, 1943, as stated in standards.md) puts the 0.2 % offset
+// (Ramberg and Osgood, NACA TN 902, 1943) puts the 0.2 % offset
 // line's crossing exactly at Rp0.2. Truth finds the crossing by
 // bisection on the model, so this checks model and offset search both.
 func TestRambergOsgoodProofStrengthExact(t *testing.T) {
@@ -37,7 +37,7 @@ func TestRambergOsgoodProofStrengthExact(t *testing.T) {
 	}
 }
 
-// Considere criterion (standards.md, "Models for simulation"): for a
+// Considere criterion (Considere 1885; common practice): for a
 // Hollomon material sigma = K eps^n the engineering maximum falls at true
 // strain n. With the elastic strain added the maximum moves by about
 // sigma/E, so the tolerance is a few times Rm/E.
@@ -63,8 +63,8 @@ func TestConsidereHollomonMaximumAtTrueStrainN(t *testing.T) {
 	}
 }
 
-// The demo materials' Truth lands near the handbook values of
-// standards.md's table: 6061-T6 Rm 310 MPa, A 12 % (Aluminum Association
+// The demo materials' Truth lands near published handbook values:
+// 6061-T6 Rm 310 MPa, A 12 % (Aluminum Association
 // typical values); C11000 annealed Rm 224-230 MPa, elongation 50-56 %
 // (Smithells 8th ed., Table 22.7); 1018 cold drawn Rm 440 MPa, 15 % in
 // 50 mm (typical datasheet values).
