@@ -82,10 +82,7 @@ func allSameBits(v []float64) bool {
 func appendRaw(dst []byte, v []float64) []byte {
 	start := len(dst)
 	dst = grow(dst, 8*len(v))
-	out := dst[start:]
-	for i, x := range v {
-		binary.LittleEndian.PutUint64(out[8*i:], math.Float64bits(x))
-	}
+	putRaw(dst[start:], v)
 	return dst
 }
 
@@ -176,11 +173,7 @@ func decodeChunk(src []byte, dst [numColumns][]float64, off int) (n int, present
 				return 0, 0, fmt.Errorf("%w: chunk truncated at column %d", ErrCorrupt, k)
 			}
 			if col != nil {
-				out := col[off : off+n]
-				raw := body[p : p+8*n]
-				for i := range out {
-					out[i] = math.Float64frombits(binary.LittleEndian.Uint64(raw[8*i:]))
-				}
+				getRaw(col[off:off+n], body[p:p+8*n])
 			}
 			p += 8 * n
 			present |= 1 << k

@@ -1,6 +1,8 @@
 package store
 
 import (
+	"bytes"
+	"encoding/binary"
 	"errors"
 	"math"
 	"testing"
@@ -111,4 +113,25 @@ func FuzzDecodeChunk(f *testing.F) {
 			requireSameCurve(t, again, got)
 		}
 	})
+}
+
+// The memmove fast path and the portable loop agree byte for byte with
+// encoding/binary's little-endian layout.
+func TestRawCopyMatchesLittleEndian(t *testing.T) {
+	c := genCurve(12345, 257)
+	v := c.ForceN
+	want := make([]byte, 8*len(v))
+	for i, x := range v {
+		binary.LittleEndian.PutUint64(want[8*i:], math.Float64bits(x))
+	}
+	got := make([]byte, len(want))
+	putRaw(got, v)
+	if !bytes.Equal(got, want) {
+		t.Fatal("putRaw differs from little-endian encoding")
+	}
+	back := make([]float64, len(v))
+	getRaw(back, want)
+	if i, ok := sameBits(back, v); !ok {
+		t.Fatalf("getRaw differs at %d", i)
+	}
 }
