@@ -30,6 +30,9 @@ func TestMain(m *testing.M) {
 	if builtin.ServeArgs(os.Args[1:]) {
 		return
 	}
+	if path := os.Getenv(childDaemonEnv); path != "" {
+		os.Exit(childDaemon(path))
+	}
 	os.Exit(m.Run())
 }
 
