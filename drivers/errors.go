@@ -26,3 +26,9 @@ var (
 	// ErrChecksumMismatch: the binary on disk is not the one configured.
 	ErrChecksumMismatch = errors.New("driver: driver binary sha256 does not match")
 )
+
+// ErrBadBatch: a driver process sent a batch whose shape is wrong (a
+// column whose length differs from the times', or a column count that
+// differs from the configured channels). The shims end the stream with it
+// rather than pass on data the daemon could misread.
+var ErrBadBatch = errors.New("driver: malformed sample batch")

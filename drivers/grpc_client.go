@@ -3,7 +3,9 @@ package drivers
 import (
 	"context"
 	"errors"
+	"fmt"
 	"io"
+	"sync/atomic"
 
 	"framed/proto/driverpb"
 )
@@ -20,6 +22,15 @@ type grpcClient struct {
 	// dead, when set, tells whether the driver process is known to have
 	// exited; errors seen after that are reported as ErrPluginDead.
 	dead func() bool
+	// channels is the channel count of the last accepted Configure, or
+	// -1 before one; batches are checked against it.
+	channels atomic.Int64
+}
+
+func newGRPCClient(c driverpb.DriverClient) *grpcClient {
+	g := &grpcClient{client: c}
+	g.channels.Store(-1)
+	return g
 }
 
 var _ Driver = (*grpcClient)(nil)
@@ -45,7 +56,9 @@ func (c *grpcClient) Configure(ctx context.Context, config []byte) (Info, error)
 	if err != nil {
 		return Info{}, c.fail(ctx, err)
 	}
-	return infoFromProto(resp.GetInfo()), nil
+	info := infoFromProto(resp.GetInfo())
+	c.channels.Store(int64(len(info.Channels)))
+	return info, nil
 }
 
 func (c *grpcClient) Health(ctx context.Context) (Health, error) {
@@ -79,6 +92,7 @@ func (c *grpcClient) Stream(ctx context.Context) (<-chan Batch, error) {
 		cancel()
 		return nil, c.fail(ctx, err)
 	}
+	channels := int(c.channels.Load())
 	out := make(chan Batch, streamBuffer)
 	go func() {
 		defer close(out)
@@ -95,6 +109,13 @@ func (c *grpcClient) Stream(ctx context.Context) (<-chan Batch, error) {
 				}
 				return
 			}
+			if err := checkShape(msg, channels); err != nil {
+				select {
+				case out <- Batch{Seq: msg.GetSeq(), Err: err}:
+				case <-ctx.Done():
+				}
+				return
+			}
 			select {
 			case out <- batchFromProto(msg):
 			case <-ctx.Done():
@@ -103,4 +124,20 @@ func (c *grpcClient) Stream(ctx context.Context) (<-chan Batch, error) {
 		}
 	}()
 	return out, nil
+}
+
+// checkShape refuses a batch the daemon could misread: one column per
+// configured channel (when known), each as long as the times.
+func checkShape(msg *driverpb.SampleBatch, channels int) error {
+	cols := msg.GetColumns()
+	if channels >= 0 && len(cols) != channels {
+		return fmt.Errorf("%w: batch %d has %d columns for %d channels", ErrBadBatch, msg.GetSeq(), len(cols), channels)
+	}
+	n := len(msg.GetTimeNs())
+	for i, c := range cols {
+		if len(c.GetValues()) != n {
+			return fmt.Errorf("%w: batch %d column %d has %d values for %d times", ErrBadBatch, msg.GetSeq(), i, len(c.GetValues()), n)
+		}
+	}
+	return nil
 }

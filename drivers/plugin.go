@@ -27,7 +27,7 @@ func (p *Plugin) GRPCServer(_ *plugin.GRPCBroker, s *grpc.Server) error {
 
 // GRPCClient returns the Driver that talks to the driver process over cc.
 func (p *Plugin) GRPCClient(_ context.Context, _ *plugin.GRPCBroker, cc *grpc.ClientConn) (any, error) {
-	return &grpcClient{client: driverpb.NewDriverClient(cc)}, nil
+	return newGRPCClient(driverpb.NewDriverClient(cc)), nil
 }
 
 // PluginMap is the plugin set of one driver process: give it to

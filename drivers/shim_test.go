@@ -139,8 +139,13 @@ func TestStreamCancelWithoutReadingGRPC(t *testing.T) {
 	if _, err := d.Configure(ctx, []byte(`{"samples_per_batch": 100}`)); err != nil {
 		t.Fatal(err)
 	}
-	before := runtime.NumGoroutine()
-	for round := range 3 {
+	// go-plugin starts its own helper streams lazily after connecting;
+	// the baseline is taken after a first round, once they run.
+	before := 0
+	for round := range 4 {
+		if round == 1 {
+			before = runtime.NumGoroutine()
+		}
 		sctx, cancel := context.WithCancel(ctx)
 		ch, err := d.Stream(sctx)
 		if err != nil {
@@ -256,5 +261,39 @@ func TestLaunchStartTimeout(t *testing.T) {
 	}
 	if waited := time.Since(start); waited > 10*time.Second {
 		t.Errorf("Launch gave up only after %v", waited)
+	}
+}
+
+// A driver process that sends a misshapen batch ends its stream with
+// ErrBadBatch instead of handing the daemon columns it could misindex.
+func TestMalformedBatchGRPC(t *testing.T) {
+	for name, bad := range map[string]drivers.Batch{
+		"short column":   {Seq: 1, TimeNS: []int64{10, 11}, Values: [][]float64{{1, 2}, {3}}},
+		"extra column":   {Seq: 1, TimeNS: []int64{10}, Values: [][]float64{{1}, {2}, {3}}},
+		"missing column": {Seq: 1, TimeNS: []int64{10}, Values: [][]float64{{1}}},
+	} {
+		t.Run(name, func(t *testing.T) {
+			good := drivers.Batch{Seq: 0, TimeNS: []int64{5}, Values: [][]float64{{1}, {2}}}
+			d := grpcConn(t, &fakedriver.Scripted{Info: scriptInfo, Batches: []drivers.Batch{good, bad}})
+			ctx, cancel := context.WithCancel(context.Background())
+			defer cancel()
+			if _, err := d.Configure(ctx, []byte(`{}`)); err != nil {
+				t.Fatal(err)
+			}
+			ch, err := d.Stream(ctx)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if b := <-ch; b.Err != nil || !sameBits(b, good) {
+				t.Fatalf("first batch %+v", b)
+			}
+			b, ok := <-ch
+			if !ok || !errors.Is(b.Err, drivers.ErrBadBatch) {
+				t.Fatalf("malformed batch arrived as %+v (open %v), want Err wrapping ErrBadBatch", b, ok)
+			}
+			if _, ok := <-ch; ok {
+				t.Error("stream still open after ErrBadBatch")
+			}
+		})
 	}
 }
