@@ -97,6 +97,7 @@ func (c *grpcClient) Stream(ctx context.Context) (<-chan Batch, error) {
 	go func() {
 		defer close(out)
 		defer cancel()
+		var next uint64 // Seq for a final error batch: one past the last
 		for {
 			msg, err := st.Recv()
 			if err != nil {
@@ -104,7 +105,7 @@ func (c *grpcClient) Stream(ctx context.Context) (<-chan Batch, error) {
 					return
 				}
 				select {
-				case out <- Batch{Err: c.fail(ctx, err)}:
+				case out <- Batch{Seq: next, Err: c.fail(ctx, err)}:
 				case <-ctx.Done():
 				}
 				return
@@ -116,6 +117,7 @@ func (c *grpcClient) Stream(ctx context.Context) (<-chan Batch, error) {
 				}
 				return
 			}
+			next = msg.GetSeq() + 1
 			select {
 			case out <- batchFromProto(msg):
 			case <-ctx.Done():

@@ -115,6 +115,9 @@ func TestStreamRoundTripAndMidStreamErrorGRPC(t *testing.T) {
 					t.Errorf("batch %d\n got %+v\nwant %+v", i, got[i], want[i])
 				}
 			}
+			if seq := got[len(got)-1].Seq; seq != uint64(len(want)) {
+				t.Errorf("error batch has Seq %d, want %d", seq, len(want))
+			}
 			last := got[len(got)-1].Err
 			if last == nil || last.Error() != tc.end.Error() {
 				t.Errorf("final Err %v, want %v", last, tc.end)
