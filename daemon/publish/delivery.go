@@ -81,6 +81,7 @@ func (p *Publisher) deliverOne(ctx context.Context, lost chan struct{}, it store
 	}
 	if err := p.db.OutboxDone(it.Seq); err != nil && !errors.Is(err, store.ErrNotFound) {
 		p.log.Error("marking result delivered", "test_id", it.TestID, "revision", it.Revision, "err", err)
+		p.sleep(ctx, time.Second) // a broken store must not turn into a resend storm
 		return false
 	}
 	p.stats.resultsAcked.Add(1)

@@ -173,8 +173,19 @@ func (p *Publisher) onConnect(c mqtt.Client) {
 	if !p.closing.Load() {
 		c.Publish(p.topics.status, 1, true, p.statusPayload("online", time.Now()))
 	}
-	c.Subscribe(p.topics.specimens, 1, p.onSpecimen)
+	sub := c.Subscribe(p.topics.specimens, 1, p.onSpecimen)
 	p.Notify()
+	// A refused subscription (an ACL, say) would silently stop specimens
+	// arriving: say so.
+	if sub.WaitTimeout(p.cfg.AckTimeout) && sub.Error() != nil {
+		p.log.Error("subscribing to specimens failed", "topic", p.topics.specimens, "err", sub.Error())
+	} else if st, ok := sub.(*mqtt.SubscribeToken); ok {
+		for topic, code := range st.Result() {
+			if code == 0x80 {
+				p.log.Error("broker refused the specimen subscription", "topic", topic)
+			}
+		}
+	}
 }
 
 func (p *Publisher) onLost(_ mqtt.Client, err error) {
