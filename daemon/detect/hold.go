@@ -40,6 +40,14 @@ type runState struct {
 	bandRefN   float64
 	bandStartS float64
 	prevS      float64 // the last filtered sample's time
+	// lastMoveS is how long the force took for its last move across the
+	// hold band: short for a load step or a swing, long for a slow drift.
+	lastMoveS float64
+	// stepExtMMPerS is the fastest the extension went in a move across
+	// the hold band since the load began to change (NaN unknown),
+	// bandExtMM the extension when the last move began.
+	stepExtMMPerS float64
+	bandExtMM     float64
 
 	// following a hold or an unloaded rest
 	refN        float64
@@ -62,6 +70,8 @@ func (d *Detector) restartSettle(fs sample) {
 	r.cur = block{startS: fs.t}
 	r.bandRefN, r.bandStartS = fs.f, fs.t
 	r.prevS = fs.t
+	r.lastMoveS = 0
+	r.stepExtMMPerS, r.bandExtMM = math.NaN(), fs.ext
 }
 
 // follow runs the hold and unload logic on one filtered sample.
@@ -123,7 +133,13 @@ const followTauS = 2
 func (d *Detector) seek(fs sample, rawT float64) {
 	r := &d.run
 	if math.Abs(fs.f-r.bandRefN) > r.holdBandN {
-		r.bandRefN, r.bandStartS = fs.f, fs.t
+		r.lastMoveS = fs.t - r.bandStartS
+		if r.lastMoveS > 0 && finite(fs.ext) && finite(r.bandExtMM) {
+			if v := math.Abs(fs.ext-r.bandExtMM) / r.lastMoveS; !(v <= r.stepExtMMPerS) {
+				r.stepExtMMPerS = v
+			}
+		}
+		r.bandRefN, r.bandStartS, r.bandExtMM = fs.f, fs.t, fs.ext
 	}
 	r.cur.f.add(fs.t, fs.f)
 	if finite(fs.ext) {
@@ -176,8 +192,28 @@ func (d *Detector) settled(w *block) bool {
 	if w.xh.n >= w.f.n/2 {
 		return drift <= r.holdBandN && math.Abs(w.xh.slope()) <= d.cfg.HoldCrossheadMaxMMPerS
 	}
-	return drift <= 2*noise
+	// Without a crosshead, a hold must follow a load step: the force
+	// crossed the hold band quickly before it settled. A continuous test
+	// creeping slowly over its flat top does not.
+	// And the extension, if read, must have slowed down well below its
+	// pace during the step: creep under dead weights is slow next to the
+	// stretch a step gives, while a continuous test keeps its pace.
+	if drift > 2*noise || r.lastMoveS > stepMaxS {
+		return false
+	}
+	if w.ext.n >= w.f.n/2 && finite(r.stepExtMMPerS) {
+		return math.Abs(w.ext.slope()) <= holdExtSlowdown*r.stepExtMMPerS
+	}
+	return true
 }
+
+// holdExtSlowdown: the extension rate of a hold is below this fraction of
+// its fastest during the step before it.
+const holdExtSlowdown = 0.25
+
+// stepMaxS is the longest a load step may take to cross the hold band:
+// weights put on by hand in well under a second (common practice).
+const stepMaxS = 2
 
 // onSettled classes a settled reading as a hold or an unloaded rest.
 func (d *Detector) onSettled(w *block, fs sample, rawT float64) {
