@@ -34,7 +34,7 @@ const (
 	FlagFlatMaximum = "flat-maximum"
 	// FlagAFromExtension: A was computed from the extension at fracture
 	// less the elastic recovery (no Lu given).
-	FlagAFromExtension = "A-from-extension"
+	FlagAFromExtension = "a-from-extension"
 	// FlagBreakFromCurve: the detector gave no break event; the fracture
 	// point was found by reduce from the force record.
 	FlagBreakFromCurve = "break-from-curve"

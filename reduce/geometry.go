@@ -102,13 +102,18 @@ func (s Specimen) gaugeLengths() (leMM, l0MM float64) {
 	return leMM, l0MM
 }
 
-// finalSectionMM2 is Su from SuMM2 or, for a round bar, from du.
-func (s Specimen) finalSectionMM2() float64 {
-	if s.SuMM2 > 0 {
-		return s.SuMM2
+// finalSectionMM2 is Su from SuMM2, else from du (round) or au bu (flat),
+// and the relative standard uncertainty of it for a dimension uncertainty
+// uDimMM. An area given directly is taken to 1 % (rectangular bound,
+// common practice for a measured neck).
+func (s Specimen) finalSectionMM2(uDimMM float64) (su, relU float64) {
+	switch {
+	case s.SuMM2 > 0:
+		return s.SuMM2, 0.01 / math.Sqrt(3)
+	case s.DuMM > 0:
+		return math.Pi * s.DuMM * s.DuMM / 4, 2 * uDimMM / s.DuMM
+	case s.AuMM > 0 && s.BuMM > 0:
+		return s.AuMM * s.BuMM, math.Hypot(uDimMM/s.AuMM, uDimMM/s.BuMM)
 	}
-	if s.DuMM > 0 {
-		return math.Pi * s.DuMM * s.DuMM / 4
-	}
-	return 0
+	return 0, 0
 }

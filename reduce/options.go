@@ -23,6 +23,10 @@ type Options struct {
 	// ExtensometerClassPct is the extensometer's ISO 9513 class (default 1):
 	// bias bound of that % of reading or 3 um x class, whichever is larger.
 	ExtensometerClassPct float64
+	// ForceRelUPct and ExtensometerRelUPct, when set, are the relative
+	// standard uncertainties (%) of the channels from their calibration
+	// certificates; they replace the class-based estimates.
+	ForceRelUPct, ExtensometerRelUPct float64
 	// DimensionUMM is the standard uncertainty of each measured dimension
 	// in mm (default 0.005 mm, a micrometer read to 0.01 mm).
 	DimensionUMM float64
@@ -84,6 +88,9 @@ func (o Options) withDefaults() (Options, error) {
 	}
 	if o.MinElasticPoints == 0 {
 		o.MinElasticPoints = 20
+	}
+	if o.ForceRelUPct < 0 || o.ExtensometerRelUPct < 0 || math.IsNaN(o.ForceRelUPct+o.ExtensometerRelUPct) || math.IsInf(o.ForceRelUPct+o.ExtensometerRelUPct, 0) {
+		return o, fmt.Errorf("%w: channel uncertainty %v / %v %%", ErrBadOptions, o.ForceRelUPct, o.ExtensometerRelUPct)
 	}
 	if o.ComplianceMMPerN < 0 || math.IsNaN(o.ComplianceMMPerN) || math.IsInf(o.ComplianceMMPerN, 0) {
 		return o, fmt.Errorf("%w: compliance %v mm/N", ErrBadOptions, o.ComplianceMMPerN)

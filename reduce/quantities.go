@@ -123,12 +123,8 @@ func (w *work) quantities() []Quantity {
 		a := xb - sb/e
 		add("A", 100*a, "%", "from the extension at fracture less the elastic recovery (stress / E), "+src(w), 100*math.Hypot(w.uStrainAt(w.iBreak), sb/e*uE/e))
 	}
-	if su := w.sp.finalSectionMM2(); su > 0 {
+	if su, uSu := w.sp.finalSectionMM2(w.opt.DimensionUMM); su > 0 {
 		z := 100 * (w.s0MM2 - su) / w.s0MM2
-		uSu := w.opt.DimensionUMM * 2 / math.Sqrt(4*su/math.Pi) // as if a round neck measured by diameter
-		if w.sp.SuMM2 > 0 {
-			uSu = 0.01 / sqrt3 // given as an area: 1 % bound, common practice for a neck
-		}
 		u := 100 * su / w.s0MM2 * math.Hypot(uSu, w.sp.relUS0(w.opt.DimensionUMM))
 		add("Z", z, "%", "100 (S0 - Su) / S0", u)
 	}

@@ -38,6 +38,10 @@ type Specimen struct {
 	LuMM  float64 `json:"Lu_mm,omitempty"`
 	SuMM2 float64 `json:"Su_mm2,omitempty"`
 	DuMM  float64 `json:"du_mm,omitempty"`
+	// AuMM and BuMM are a flat specimen's smallest thickness and width
+	// after fracture (Su = au bu when SuMM2 is not given).
+	AuMM float64 `json:"au_mm,omitempty"`
+	BuMM float64 `json:"bu_mm,omitempty"`
 }
 
 // SpecimenInfo is the specimen as the result document shows it: the

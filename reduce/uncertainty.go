@@ -20,7 +20,13 @@ const kCoverage = 2
 var sqrt3 = math.Sqrt(3)
 
 // relUForce is the relative standard uncertainty of a force reading.
-func (w *work) relUForce() float64 { return w.opt.ForceClassPct / 100 / sqrt3 }
+// A calibration's own uncertainty replaces the class when given.
+func (w *work) relUForce() float64 {
+	if w.opt.ForceRelUPct > 0 {
+		return w.opt.ForceRelUPct / 100
+	}
+	return w.opt.ForceClassPct / 100 / sqrt3
+}
 
 // relUStress is the relative standard uncertainty of a stress F/S0.
 func (w *work) relUStress() float64 {
@@ -33,6 +39,11 @@ func (w *work) uStrain(x float64) float64 {
 		return math.Max(0.05*math.Abs(x), 0.02/w.leMM) / sqrt3
 	}
 	c := w.opt.ExtensometerClassPct
+	if w.opt.ExtensometerRelUPct > 0 {
+		// A calibration's relative uncertainty, with the class's absolute
+		// floor (resolution does not calibrate away).
+		return math.Max(w.opt.ExtensometerRelUPct/100*math.Abs(x), 0.003*c/w.leMM/sqrt3)
+	}
 	bound := math.Max(c/100*math.Abs(x), 0.003*c/w.leMM)
 	return bound / sqrt3
 }
@@ -61,6 +72,9 @@ func (w *work) uStrainAt(i int) float64 {
 func (w *work) relUStrainScale() float64 {
 	if w.source == fromCrosshead {
 		return 0.05 / sqrt3
+	}
+	if w.opt.ExtensometerRelUPct > 0 {
+		return w.opt.ExtensometerRelUPct / 100
 	}
 	return w.opt.ExtensometerClassPct / 100 / sqrt3
 }

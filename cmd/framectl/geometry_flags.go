@@ -19,9 +19,11 @@ type geometryFlags struct {
 	d0, a0, b0, outerD0, s0  float64
 	massG, totalLMM, density float64
 	l0, le, lu, su, du       float64
+	au, bu                   float64
 	id, material             string
 
 	forceClassPct, extClassPct, dimUMM, complianceMMPerN float64
+	forceUPct, extUPct                                   float64
 	proof, total, nk                                     string
 }
 
@@ -41,10 +43,14 @@ func addGeometryFlags(fs *flag.FlagSet) *geometryFlags {
 	fs.Float64Var(&g.lu, "Lu", 0, "final gauge length of the fitted-together pieces Lu, mm")
 	fs.Float64Var(&g.su, "Su", 0, "smallest cross-section after fracture Su, mm2")
 	fs.Float64Var(&g.du, "du", 0, "round: smallest diameter after fracture du, mm")
+	fs.Float64Var(&g.au, "au", 0, "flat: smallest thickness after fracture au, mm")
+	fs.Float64Var(&g.bu, "bu", 0, "flat: smallest width after fracture bu, mm")
 	fs.StringVar(&g.id, "specimen", "", "specimen id for the result document")
 	fs.StringVar(&g.material, "material", "", "material name for the result document")
 	fs.Float64Var(&g.forceClassPct, "force-class", 0, "force channel class per ISO 7500-1, % (default 1)")
 	fs.Float64Var(&g.extClassPct, "ext-class", 0, "extensometer class per ISO 9513, % (default 1)")
+	fs.Float64Var(&g.forceUPct, "force-u", 0, "force channel relative standard uncertainty from its calibration, % (replaces the class)")
+	fs.Float64Var(&g.extUPct, "ext-u", 0, "extensometer relative standard uncertainty from its calibration, % (replaces the class)")
 	fs.Float64Var(&g.dimUMM, "dim-u", 0, "standard uncertainty of each measured dimension, mm (default 0.005)")
 	fs.Float64Var(&g.complianceMMPerN, "compliance", 0, "machine compliance for crosshead strain, mm/N (from a stored calibration)")
 	fs.StringVar(&g.proof, "proof", "", "plastic extensions for Rp, % of Le, comma-separated (default 0.2,1)")
@@ -59,7 +65,7 @@ func (g *geometryFlags) specimen() (reduce.Specimen, error) {
 		ID: g.id, Material: g.material, Shape: reduce.Shape(g.shape),
 		D0MM: g.d0, A0MM: g.a0, B0MM: g.b0, OuterD0MM: g.outerD0, S0MM2: g.s0,
 		MassG: g.massG, TotalLengthMM: g.totalLMM, DensityGPerCM3: g.density,
-		L0MM: g.l0, LeMM: g.le, LuMM: g.lu, SuMM2: g.su, DuMM: g.du,
+		L0MM: g.l0, LeMM: g.le, LuMM: g.lu, SuMM2: g.su, DuMM: g.du, AuMM: g.au, BuMM: g.bu,
 	}
 	if g.s0 == 0 && g.shape == "" {
 		return sp, fmt.Errorf("%w: give the cross-section: --shape round --d0 MM, --shape rect --a0 MM --b0 MM, --shape tube --a0 MM --D0 MM, --shape wire --mass-g G --Lt MM --density G_PER_CM3, or --S0 MM2", errUsage)
@@ -70,7 +76,7 @@ func (g *geometryFlags) specimen() (reduce.Specimen, error) {
 	if !(g.l0 > 0) && !(g.le > 0) {
 		return sp, fmt.Errorf("%w: give the gauge length --L0 MM (and --Le MM when the extensometer's differs)", errUsage)
 	}
-	for name, v := range map[string]float64{"L0": g.l0, "Le": g.le, "Lu": g.lu, "Su": g.su, "du": g.du} {
+	for name, v := range map[string]float64{"L0": g.l0, "Le": g.le, "Lu": g.lu, "Su": g.su, "du": g.du, "au": g.au, "bu": g.bu} {
 		if v < 0 {
 			return sp, fmt.Errorf("%w: --%s %v must not be negative", errUsage, name, v)
 		}
@@ -85,6 +91,8 @@ func (g *geometryFlags) options() (reduce.Options, error) {
 		ExtensometerClassPct: g.extClassPct,
 		DimensionUMM:         g.dimUMM,
 		ComplianceMMPerN:     g.complianceMMPerN,
+		ForceRelUPct:         g.forceUPct,
+		ExtensometerRelUPct:  g.extUPct,
 	}
 	var err error
 	if opt.ProofPct, err = pctList("proof", g.proof); err != nil {
