@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"sync"
 	"testing"
 	"time"
 )
@@ -131,6 +132,9 @@ func TestPowerCut(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
+		var once sync.Once
+		closeDB := func() { once.Do(func() { closeChecked(t, db) }) }
+		t.Cleanup(closeDB) // checked even when a check below fails
 		got, err := db.ReadSamples("T")
 		if err != nil {
 			t.Fatalf("kill %d: %v", k, err)
@@ -139,7 +143,7 @@ func TestPowerCut(t *testing.T) {
 			t.Fatalf("kill %d: %d samples stored, %d were reported committed", k, got.Len(), promised)
 		}
 		requireSameCurve(t, got, genCurve(0, got.Len()))
-		closeChecked(t, db)
+		closeDB() // before the next writer opens the file
 		t.Logf("kill %d: %d samples stored, %d promised", k, got.Len(), promised)
 	}
 }
