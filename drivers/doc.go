@@ -21,8 +21,9 @@
 // Across the boundary the named errors keep their identity: a driver's
 // ErrBadConfig, ErrNotConfigured, ErrDeviceGone and ErrStreaming travel as
 // gRPC codes and unwrap to the same variables in the daemon, with the
-// driver's message. A driver process that exits or stops answering makes
-// every call, and the open stream's last batch, fail with ErrPluginDead;
+// driver's message. A driver process that exits, or hangs under an open
+// stream (it misses a liveness ping after 10 s of silence), makes every
+// call, and the open stream's last batch, fail with ErrPluginDead;
 // the supervisor then calls Kill and launches a new process.
 //
 // Streams are channels of Batch values. A failure mid-stream arrives as a

@@ -14,6 +14,7 @@ import (
 	"github.com/hashicorp/go-hclog"
 	"github.com/hashicorp/go-plugin"
 	"google.golang.org/grpc"
+	"google.golang.org/grpc/keepalive"
 )
 
 // LaunchConfig says which driver process to start.
@@ -32,7 +33,18 @@ type LaunchConfig struct {
 	Logger hclog.Logger
 	// StartTimeout bounds the handshake (default one minute).
 	StartTimeout time.Duration
+	// PingTimeout bounds the answer to a liveness ping. While a stream is
+	// open, the host pings a driver process that has been silent for
+	// pingInterval; one that does not answer within PingTimeout (default
+	// 5 s) counts as dead, so a hung (not only a crashed) driver ends its
+	// stream with ErrPluginDead.
+	PingTimeout time.Duration
 }
+
+// pingInterval is how long a stream may be silent before the host pings
+// the driver process; gRPC allows no less than 10 s. The server side
+// (Serve) permits pings this often.
+const pingInterval = 10 * time.Second
 
 // Launch starts a driver process and connects to it. The returned Process
 // is a Driver; call Kill when done with it (plugin.CleanupClients also
@@ -59,6 +71,10 @@ func Launch(ctx context.Context, cfg LaunchConfig) (*Process, error) {
 	} else if !isSelf(cmd.Path) {
 		return nil, fmt.Errorf("driver launch: %w: %q", ErrNoChecksum, cmd.Path)
 	}
+	pingTimeout := cfg.PingTimeout
+	if pingTimeout <= 0 {
+		pingTimeout = 5 * time.Second
+	}
 	logger := cfg.Logger
 	if logger == nil {
 		logger = hclog.New(&hclog.LoggerOptions{Name: "driver", Level: hclog.Warn, Output: os.Stderr})
@@ -72,8 +88,10 @@ func Launch(ctx context.Context, cfg LaunchConfig) (*Process, error) {
 		Logger:           logger,
 		StartTimeout:     cfg.StartTimeout,
 		Managed:          true,
-		GRPCDialOptions: []grpc.DialOption{grpc.WithDefaultCallOptions(
-			grpc.MaxCallRecvMsgSize(maxMessageBytes), grpc.MaxCallSendMsgSize(maxMessageBytes))},
+		GRPCDialOptions: []grpc.DialOption{
+			grpc.WithDefaultCallOptions(grpc.MaxCallRecvMsgSize(maxMessageBytes), grpc.MaxCallSendMsgSize(maxMessageBytes)),
+			grpc.WithKeepaliveParams(keepalive.ClientParameters{Time: pingInterval, Timeout: pingTimeout}),
+		},
 	})
 
 	type started struct {

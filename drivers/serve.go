@@ -6,6 +6,7 @@ import (
 	"github.com/hashicorp/go-hclog"
 	"github.com/hashicorp/go-plugin"
 	"google.golang.org/grpc"
+	"google.golang.org/grpc/keepalive"
 )
 
 // maxMessageBytes bounds one gRPC message. A batch of 100 000 samples on
@@ -23,7 +24,11 @@ func Serve(d Driver) {
 		HandshakeConfig: Handshake,
 		Plugins:         PluginMap(d),
 		GRPCServer: func(opts []grpc.ServerOption) *grpc.Server {
-			opts = append(opts, grpc.MaxRecvMsgSize(maxMessageBytes), grpc.MaxSendMsgSize(maxMessageBytes))
+			opts = append(opts,
+				grpc.MaxRecvMsgSize(maxMessageBytes), grpc.MaxSendMsgSize(maxMessageBytes),
+				// The host pings a silent stream every pingInterval; the
+				// default policy (once per 5 minutes) would hang up on it.
+				grpc.KeepaliveEnforcementPolicy(keepalive.EnforcementPolicy{MinTime: pingInterval / 2}))
 			return grpc.NewServer(opts...)
 		},
 		// The host reads this JSON log from stderr and re-logs it with its

@@ -4,8 +4,11 @@ import (
 	"context"
 	"errors"
 	"math"
+	"os"
+	"os/exec"
 	"reflect"
 	"runtime"
+	"syscall"
 	"testing"
 	"time"
 
@@ -298,5 +301,52 @@ func TestMalformedBatchGRPC(t *testing.T) {
 				t.Error("stream still open after ErrBadBatch")
 			}
 		})
+	}
+}
+
+// A driver process that hangs (stopped, not crashed) under an open stream
+// is found dead by the liveness ping: the stream ends with ErrPluginDead.
+// It takes the ping interval, about 10 s.
+func TestHungDriverIsDeadIntegration(t *testing.T) {
+	if testing.Short() {
+		t.Skip("waits for the 10 s liveness ping")
+	}
+	exe, err := os.Executable()
+	if err != nil {
+		t.Fatal(err)
+	}
+	cmd := exec.Command(exe, "-test.run=^$")
+	cmd.Env = append(os.Environ(), conformance.EnvServe+"=fake")
+	p, err := drivers.Launch(context.Background(), drivers.LaunchConfig{Cmd: cmd, PingTimeout: time.Second})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() {
+		_ = syscall.Kill(p.Pid(), syscall.SIGCONT)
+		p.Kill()
+	})
+	ctx, cancel := context.WithTimeout(context.Background(), 40*time.Second)
+	defer cancel()
+	if _, err := p.Configure(ctx, []byte(`{"batch_interval_us": 20000}`)); err != nil {
+		t.Fatal(err)
+	}
+	ch, err := p.Stream(ctx)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b := <-ch; b.Err != nil {
+		t.Fatal(b.Err)
+	}
+	if err := syscall.Kill(p.Pid(), syscall.SIGSTOP); err != nil {
+		t.Fatal(err)
+	}
+	var last error
+	for b := range ch {
+		if b.Err != nil {
+			last = b.Err
+		}
+	}
+	if !errors.Is(last, drivers.ErrPluginDead) {
+		t.Errorf("stream of a hung driver ended with %v, want ErrPluginDead", last)
 	}
 }
