@@ -123,3 +123,54 @@ func TestHandbookPlausibility(t *testing.T) {
 		_ = math.Abs
 	}
 }
+
+// TestSimulatedSeriesAgainstTruth reduces the whole demo series of the
+// simulated frame and holds it to the simulator's ground truth
+// (sim.Material.Truth, worked out numerically from the material model by
+// drivers/sim, independently of this package). Where a value misses the
+// tolerance, the stated U must still cover the truth.
+func TestSimulatedSeriesAgainstTruth(t *testing.T) {
+	for _, sp := range sim.DemoScript() {
+		tr := sp.Material.Truth()
+		c := simulate(t, sp, 200)
+		res, err := reduce.Reduce(c, sp.Geometry(), reduce.Detected{}, reduce.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		check := func(sym string, want, tol float64) {
+			t.Helper()
+			q, ok := quantity(res, sym)
+			if !ok {
+				t.Errorf("%s: %s missing (flags %v)", sp.ID, sym, res.Flags)
+				return
+			}
+			d := math.Abs(q.Value - want)
+			if d <= tol {
+				return
+			}
+			if q.U == nil || d > *q.U {
+				t.Errorf("%s: %s = %.4g (U %v), truth %.4g, tolerance %.3g (%s)", sp.ID, sym, q.Value, q.U, want, tol, q.Method)
+			}
+		}
+		check("Rm", tr.RmMPa, 0.005*tr.RmMPa)
+		if sp.Loading.Mode == sim.ModeDeadWeight {
+			// Holds, swings and creep leave no elastic line to fit: E and
+			// what depends on it are withheld and said so.
+			if _, ok := quantity(res, "E"); ok || !hasFlag(res, reduce.FlagNoElasticFit) {
+				t.Errorf("%s: dead-weight record gave E (flags %v)", sp.ID, res.Flags)
+			}
+			continue
+		}
+		check("E", tr.EMPa/1000, 0.03*tr.EMPa/1000)
+		check("Rp0.2", tr.Rp02MPa, 0.01*tr.Rp02MPa)
+		check("Ag", tr.AgPct, 0.5)
+		check("A", tr.APct, 0.5)
+		if tr.ReHMPa > 0 {
+			check("ReH", tr.ReHMPa, 0.005*tr.ReHMPa)
+			check("ReL", tr.ReLMPa, 0.01*tr.ReLMPa)
+			check("Ae", tr.AePct, 0.2)
+		} else if _, ok := quantity(res, "ReH"); ok {
+			t.Errorf("%s: continuous yielding reported ReH", sp.ID)
+		}
+	}
+}

@@ -45,6 +45,10 @@ var widenFactor = 3.0
 // significant against the noise (F above bendF, about t = 3).
 const (
 	bendRel = 0.01
+	// unusableR2: below this r^2 the best window is no line and E is not
+	// reported at all (ASTM E111 asks far better of a modulus fit; a noisy
+	// annealed copper record at 200 Hz still fits to about 0.98).
+	unusableR2 = 0.95
 	bendF   = 9
 )
 
@@ -135,6 +139,13 @@ func (w *work) fitElastic() {
 	w.eSpreadMPa = (es[len(es)-1] - es[0]) / 2
 
 	l := b.l
+	if l.r2 < unusableR2 {
+		// Not a line at all (a dead-weight record's holds and creep, a
+		// slipping grip): no E rather than a number that means nothing.
+		w.flag(FlagPoorElasticFit)
+		w.flag(FlagNoElasticFit)
+		return
+	}
 	// Intercept on the unshifted strain axis, then zero the strain there.
 	zero := x0 - l.intercept/l.slope
 	for i := range w.strain {

@@ -36,7 +36,8 @@ func (w *work) firstReach(g func(i int) float64, level float64) crossing {
 	prev, pv := -1, 0.0
 	for i := w.first; i <= w.iBreak; i++ {
 		v := g(i)
-		if !finite(v) {
+		// Only loaded samples: a swing or slack below zero is no proof.
+		if !finite(v) || !(w.stress[i] > 0) {
 			continue
 		}
 		if v >= level {
