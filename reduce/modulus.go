@@ -49,7 +49,7 @@ const (
 	// reported at all (ASTM E111 asks far better of a modulus fit; a noisy
 	// annealed copper record at 200 Hz still fits to about 0.98).
 	unusableR2 = 0.95
-	bendF   = 9
+	bendF      = 9
 )
 
 type window struct {
