@@ -60,6 +60,13 @@ type Daemon struct {
 	srcs    [nSignals]source
 	infos   []drivers.Info
 	lastErr string
+	// reducing holds tests handed to the reducer and not yet done, so
+	// recovery never queues a test twice.
+	reducing map[string]bool
+	// recover is set after a storage failure: tests it left open are
+	// closed and reduced once the store takes writes again.
+	recover bool
+	finished chan finishedTest
 }
 
 // StorePath is the bbolt file inside a state directory.
@@ -148,10 +155,11 @@ func (d *Daemon) run(ctx context.Context) (err error) {
 	defer ctl.close()
 
 	finished := make(chan finishedTest, 64)
+	d.finished, d.reducing = finished, map[string]bool{}
 	reducerDone := make(chan struct{})
-	red := &reducer{log: d.log, frame: d.cfg.Frame, db: d.db, opts: d.reduceOptions, calibs: d.calibrationRefs, delivered: d.pub.Notify}
+	red := &reducer{log: d.log, frame: d.cfg.Frame, db: d.db, opts: d.reduceOptions, calibs: d.calibrationRefs, delivered: d.pub.Notify, done: d.reduced}
 	go red.run(finished, reducerDone)
-	d.recoverTests(finished)
+	d.recoverTests("")
 
 	batches := make(chan driverBatch, 64)
 	notes := make(chan driverNote, 16)
@@ -164,7 +172,7 @@ func (d *Daemon) run(ctx context.Context) (err error) {
 		d.opt.Ready(d)
 	}
 	d.log.Info("framed running", "frame", d.cfg.Frame, "broker", d.brokerURL, "state", d.cfg.StateDir, "drivers", len(d.sups))
-	loopErr := d.loop(runCtx, batches, notes, finished)
+	loopErr := d.loop(runCtx, batches, notes)
 	cancel()
 	wg.Wait()
 	close(finished)
@@ -229,7 +237,7 @@ func (d *Daemon) startPublisher(ctx context.Context) error {
 }
 
 // loop is the acquisition core: merge, calibrate, detect, store.
-func (d *Daemon) loop(ctx context.Context, batches <-chan driverBatch, notes <-chan driverNote, finished chan<- finishedTest) error {
+func (d *Daemon) loop(ctx context.Context, batches <-chan driverBatch, notes <-chan driverNote) error {
 	rates := make([]float64, len(d.infos))
 	delays := make([]float64, len(d.infos))
 	for i, in := range d.infos {
@@ -245,7 +253,7 @@ func (d *Daemon) loop(ctx context.Context, batches <-chan driverBatch, notes <-c
 	}
 	life := &lifecycle{
 		log: d.log, frame: d.cfg.Frame, db: d.db, det: det, hist: newHistory(d.cfg.Detect.PreTriggerS + 1),
-		epoch: epoch, preS: d.cfg.Detect.PreTriggerS, sink: d, nextSpecimen: d.spec.pop, finished: finished,
+		epoch: epoch, preS: d.cfg.Detect.PreTriggerS, sink: d, nextSpecimen: d.spec.pop, handOff: d.handOff,
 	}
 	health := time.NewTicker(5 * time.Second)
 	defer health.Stop()
@@ -281,6 +289,9 @@ func (d *Daemon) loop(ctx context.Context, batches <-chan driverBatch, notes <-c
 				s.pollHealth(ctx)
 			}
 			cal = d.loadCalibrations()
+			if d.recover {
+				d.recover = !d.recoverTests(d.currentTest(life))
+			}
 		case db := <-batches:
 			if db.b.GapBefore > 0 {
 				life.flag("data-gap")
@@ -346,11 +357,12 @@ func (d *Daemon) storageFailed(l *lifecycle, err error) {
 	d.lastErr = err.Error()
 	d.state = "storage-error"
 	d.mu.Unlock()
-	if first {
-		d.log.Error("storage failed: acquisition of this test stopped", "err", err)
-	}
+	d.recover = true
 	id := d.currentTest(l)
-	d.pub.Event(publish.EventMsg{TestID: id, Kind: "storage-error"})
+	if first {
+		d.log.Error("storage failed: acquisition of this test stopped; framed keeps watching and resumes when the store takes writes", "err", err)
+		d.pub.Event(publish.EventMsg{TestID: id, Kind: "storage-error"})
+	}
 	if l.test != nil {
 		l.flag("storage-error")
 		if e := l.end(true); e != nil {
@@ -393,15 +405,42 @@ func (d *Daemon) forceRangeN() float64 {
 	return d.infos[s.driver].Channels[s.channel].RangeMax
 }
 
-// recoverTests closes tests a crash or power cut left open and reduces
-// tests that ended without a result, so every recorded test gets one.
-func (d *Daemon) recoverTests(finished chan<- finishedTest) {
+// handOff queues an ended test for the reducer.
+func (d *Daemon) handOff(ft finishedTest) {
+	d.mu.Lock()
+	d.reducing[ft.id] = true
+	d.mu.Unlock()
+	d.finished <- ft
+}
+
+// reduced is called by the reducer when a test is done (or failed).
+func (d *Daemon) reduced(id string, err error) {
+	d.mu.Lock()
+	delete(d.reducing, id)
+	if err != nil {
+		d.recover = true // try again on the next round
+	}
+	d.mu.Unlock()
+}
+
+// recoverTests closes tests a crash, power cut or storage failure left
+// open and reduces tests that ended without a result, so every recorded
+// test gets one. skip is the test being recorded now. It reports whether
+// every test was handled.
+func (d *Daemon) recoverTests(skip string) bool {
 	tests, err := d.db.Tests()
 	if err != nil {
 		d.log.Error("list stored tests", "err", err)
-		return
+		return false
 	}
+	ok := true
 	for _, t := range tests {
+		d.mu.Lock()
+		busy := d.reducing[t.ID]
+		d.mu.Unlock()
+		if t.ID == skip || busy {
+			continue
+		}
 		if t.State != store.StateRunning && t.State != store.StateEnded && t.State != store.StateInterrupted {
 			continue
 		}
@@ -413,6 +452,7 @@ func (d *Daemon) recoverTests(finished chan<- finishedTest) {
 			flags = append(flags, "interrupted")
 			if err := d.db.SetTestState(t.ID, store.StateInterrupted, flags...); err != nil {
 				d.log.Error("mark interrupted", "test", t.ID, "err", err)
+				ok = false
 				continue
 			}
 		}
@@ -421,10 +461,12 @@ func (d *Daemon) recoverTests(finished chan<- finishedTest) {
 		c, err := d.db.ReadSamples(t.ID)
 		if err != nil {
 			d.log.Error("read samples of an interrupted test", "test", t.ID, "err", err)
+			ok = false
 			continue
 		}
 		det := detect.Offline(c, detect.Config{})
 		d.log.Info("recovering a test left open", "test", t.ID, "samples", t.Samples)
-		finished <- finishedTest{id: t.ID, specimen: sp, hasSpec: hasSpec, detected: det, flags: append(flags, t.Flags...), started: t.StartedAt}
+		d.handOff(finishedTest{id: t.ID, specimen: sp, hasSpec: hasSpec, detected: det, flags: append(flags, t.Flags...), started: t.StartedAt})
 	}
+	return ok
 }

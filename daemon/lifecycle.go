@@ -2,6 +2,7 @@ package daemon
 
 import (
 	"encoding/json"
+	"errors"
 	"fmt"
 	"log/slog"
 	"math"
@@ -30,8 +31,8 @@ type lifecycle struct {
 	sink eventSink
 	// nextSpecimen pops the specimen for a starting test (nil: none known).
 	nextSpecimen func() (reduce.Specimen, bool)
-	// finished receives each ended test for reduction off this goroutine.
-	finished chan<- finishedTest
+	// handOff passes each ended test to the reducer, off this goroutine.
+	handOff func(finishedTest)
 	clock    func() time.Time
 
 	test *runningTest
@@ -91,11 +92,18 @@ func (l *lifecycle) handle(em detect.Emission) error {
 			return nil
 		}
 		if err := l.begin(); err != nil {
+			// Watch for a start again rather than follow a test that
+			// has nowhere to go.
+			l.det.Reset()
+			l.hist.reset()
 			return err
 		}
 	}
 	if l.test == nil {
-		return nil // events outside a test (e.g. idle noise) are not published
+		if ev.Kind == reduce.EventEnd {
+			l.det.Reset() // a test that could not be stored ended
+		}
+		return nil // events outside a stored test are not published
 	}
 	rel := ev
 	rel.TimeS = roundUS(ev.TimeS - l.test.t0S)
@@ -185,16 +193,18 @@ func (l *lifecycle) end(interrupted bool) error {
 	l.test = nil
 	det := l.det.Detected()
 	l.det.Reset()
-	if err := t.app.Close(); err != nil {
-		return fmt.Errorf("commit samples of %s: %w", t.id, err)
-	}
+	// What could not be committed is lost to the failure; what was
+	// committed is closed and reduced all the same.
+	closeErr := t.app.Close()
 	state := store.StateEnded
-	if interrupted {
+	if interrupted || closeErr != nil {
 		state = store.StateInterrupted
 		t.flags = append(t.flags, "interrupted")
 	}
 	if err := l.db.SetTestState(t.id, state, t.flags...); err != nil {
-		return fmt.Errorf("close test %s: %w", t.id, err)
+		// The test stays "running" in the store; the daemon's periodic
+		// recovery closes and reduces it once the store takes writes.
+		return fmt.Errorf("close test %s: %w", t.id, errors.Join(closeErr, err))
 	}
 	// Move event times onto the test's axis.
 	shift := func(v float64) float64 { return roundUS(v - t.t0S) }
@@ -210,7 +220,10 @@ func (l *lifecycle) end(interrupted bool) error {
 	}
 	l.log.Info("test ended", "test", t.id, "samples", t.samples, "interrupted", interrupted)
 	meta, _ := l.db.Test(t.id)
-	l.finished <- finishedTest{id: t.id, specimen: t.specimen, hasSpec: t.hasSpec, detected: det, flags: t.flags, started: meta.StartedAt}
+	l.handOff(finishedTest{id: t.id, specimen: t.specimen, hasSpec: t.hasSpec, detected: det, flags: t.flags, started: meta.StartedAt})
+	if closeErr != nil {
+		return fmt.Errorf("commit samples of %s: %w", t.id, closeErr)
+	}
 	return nil
 }
 

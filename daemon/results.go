@@ -24,13 +24,19 @@ type reducer struct {
 	calibs func() ([]reduce.CalibrationRef, []string)
 	// delivered is poked after a result is queued.
 	delivered func()
+	// done is told when a test is finished with, and how.
+	done func(id string, err error)
 }
 
 func (r *reducer) run(in <-chan finishedTest, done chan<- struct{}) {
 	defer close(done)
 	for ft := range in {
-		if err := r.reduceOne(ft); err != nil {
+		err := r.reduceOne(ft)
+		if err != nil {
 			r.log.Error("reduction failed", "test", ft.id, "err", err)
+		}
+		if r.done != nil {
+			r.done(ft.id, err)
 		}
 	}
 }

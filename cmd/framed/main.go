@@ -24,8 +24,8 @@ import (
 
 	// Built-in drivers register themselves with the builtin registry.
 	_ "framed/drivers/lineserial"
-	// _ "framed/drivers/modbusrtu" (pending)
-	// _ "framed/drivers/replay" (pending)
+	_ "framed/drivers/modbusrtu"
+	_ "framed/drivers/replay"
 	_ "framed/drivers/sim"
 )
 
