@@ -184,3 +184,50 @@ func TestAppenderKeepsSamplesWhenCommitFails(t *testing.T) {
 	}
 	requireSameCurve(t, got, want)
 }
+
+// Readers see a consistent prefix while an appender commits in the
+// background: every read decodes, and what it holds is exactly the first
+// samples written.
+func TestReadWhileAppending(t *testing.T) {
+	db, _ := openTestDB(t, Options{CommitInterval: 2 * time.Millisecond, ChunkSamples: 300})
+	if err := db.CreateTest(TestMeta{ID: "T", StartedAt: t0}); err != nil {
+		t.Fatal(err)
+	}
+	const total = 200_000
+	done := make(chan error, 1)
+	go func() {
+		a := db.Appender("T")
+		for from := 0; from < total; from += 1000 {
+			if err := a.Append(genCurve(from, 1000)); err != nil {
+				done <- err
+				return
+			}
+		}
+		done <- a.Close()
+	}()
+	reads := 0
+	for {
+		c, err := db.ReadSamples("T")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if c.Len() > 0 {
+			requireSameCurve(t, c, genCurve(0, c.Len()))
+		}
+		reads++
+		select {
+		case err := <-done:
+			if err != nil {
+				t.Fatal(err)
+			}
+			c, err := db.ReadSamples("T")
+			if err != nil {
+				t.Fatal(err)
+			}
+			requireSameCurve(t, c, genCurve(0, total))
+			t.Logf("%d reads while appending", reads)
+			return
+		default:
+		}
+	}
+}
