@@ -228,3 +228,38 @@ func collectResults(t *testing.T, s *subscriber, want int) []string {
 	}
 	return order
 }
+
+func storeMeta(id string) store.TestMeta {
+	return store.TestMeta{ID: id, StartedAt: testStart, State: store.StateReduced}
+}
+
+func openStoreB(b *testing.B) *store.DB {
+	b.Helper()
+	db, err := store.Open(filepath.Join(b.TempDir(), "framed.db"), store.Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.Cleanup(func() {
+		if err := db.Check(); err != nil {
+			b.Errorf("store check: %v", err)
+		}
+		db.Close()
+	})
+	return db
+}
+
+// subscribeB returns a channel of payloads arriving on topic.
+func subscribeB(b *testing.B, broker, topic string) <-chan string {
+	b.Helper()
+	out := make(chan string, 100)
+	c := mqtt.NewClient(mqtt.NewClientOptions().AddBroker(broker).SetClientID("bench-sub"))
+	if tok := c.Connect(); !tok.WaitTimeout(10*time.Second) || tok.Error() != nil {
+		b.Fatalf("subscriber: %v", tok.Error())
+	}
+	b.Cleanup(func() { c.Disconnect(50) })
+	tok := c.Subscribe(topic, 1, func(_ mqtt.Client, m mqtt.Message) { out <- string(m.Payload()) })
+	if !tok.WaitTimeout(10*time.Second) || tok.Error() != nil {
+		b.Fatalf("subscribe: %v", tok.Error())
+	}
+	return out
+}
