@@ -16,6 +16,9 @@ var (
 	// ErrBadOptions: an option is out of range (negative class, proof
 	// extension not positive...).
 	ErrBadOptions = errors.New("reduce: bad options")
+	// ErrNoCalibration: a compliance calibration record is unusable (no
+	// crosshead, too few loading points, a bar stiffer than its E says).
+	ErrNoCalibration = errors.New("reduce: calibration record unusable")
 	// ErrRaggedCurve: the curve's columns differ in length.
 	ErrRaggedCurve = errors.New("reduce: columns of unequal length")
 )

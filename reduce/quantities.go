@@ -121,7 +121,7 @@ func (w *work) quantities() []Quantity {
 	} else if w.fitOK && finite(xb) && finite(sb) {
 		w.flag(FlagAFromExtension)
 		a := xb - sb/e
-		add("A", 100*a, "%", "from the extension at fracture less the elastic recovery (stress / E), "+src(w), 100*math.Hypot(w.uStrainAt(w.iBreak), sb/e*uE/e))
+		add("A", 100*a, "%", "from the extension at fracture over Le less the elastic recovery (stress / E), "+src(w), 100*math.Hypot(w.uStrainAt(w.iBreak), sb/e*uE/e))
 	}
 	if su, uSu := w.sp.finalSectionMM2(w.opt.DimensionUMM); su > 0 {
 		z := 100 * (w.s0MM2 - su) / w.s0MM2
