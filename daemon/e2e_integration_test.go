@@ -284,3 +284,12 @@ func TestEndToEndEmbeddedIntegration(t *testing.T) {
 	addr := fmt.Sprintf("127.0.0.1:%d", port)
 	runEndToEnd(t, "embedded:"+addr, "tcp://"+addr)
 }
+
+func mustJSON(t *testing.T, v any) []byte {
+	t.Helper()
+	b, err := json.Marshal(v)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return b
+}
