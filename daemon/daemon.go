@@ -65,7 +65,7 @@ type Daemon struct {
 	reducing map[string]bool
 	// recover is set after a storage failure: tests it left open are
 	// closed and reduced once the store takes writes again.
-	recover bool
+	recover  bool
 	finished chan finishedTest
 }
 
