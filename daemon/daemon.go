@@ -289,8 +289,14 @@ func (d *Daemon) loop(ctx context.Context, batches <-chan driverBatch, notes <-c
 				s.pollHealth(ctx)
 			}
 			cal = d.loadCalibrations()
-			if d.recover {
-				d.recover = !d.recoverTests(d.currentTest(life))
+			d.mu.Lock()
+			again := d.recover
+			d.recover = false
+			d.mu.Unlock()
+			if again && !d.recoverTests(d.currentTest(life)) {
+				d.mu.Lock()
+				d.recover = true
+				d.mu.Unlock()
 			}
 		case db := <-batches:
 			if db.b.GapBefore > 0 {
@@ -356,8 +362,8 @@ func (d *Daemon) storageFailed(l *lifecycle, err error) {
 	first := d.lastErr != err.Error()
 	d.lastErr = err.Error()
 	d.state = "storage-error"
-	d.mu.Unlock()
 	d.recover = true
+	d.mu.Unlock()
 	id := d.currentTest(l)
 	if first {
 		d.log.Error("storage failed: acquisition of this test stopped; framed keeps watching and resumes when the store takes writes", "err", err)

@@ -33,7 +33,6 @@ type lifecycle struct {
 	nextSpecimen func() (reduce.Specimen, bool)
 	// handOff passes each ended test to the reducer, off this goroutine.
 	handOff func(finishedTest)
-	clock   func() time.Time
 
 	test *runningTest
 	rel  reduce.Curve // scratch: the batch on the test's time axis
