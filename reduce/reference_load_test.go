@@ -9,11 +9,8 @@ import (
 
 	"framed/reduce"
 	"framed/reduce/curvefile"
+	"framed/reduce/refcurves"
 )
-
-// referenceDir holds real published tension tests (see reference_test.go
-// for their sources and licence).
-const referenceDir = "/work/shared/data/reference-curves"
 
 // refCase is one reference curve with its publisher's reported row.
 type refCase struct {
@@ -23,21 +20,13 @@ type refCase struct {
 	rep     map[string]float64 // reported values by column name
 }
 
-func referenceDirOrSkip(t testing.TB) string {
-	dir := os.Getenv("FRAMED_REFERENCE_CURVES")
-	if dir == "" {
-		dir = referenceDir
-	}
-	if _, err := os.Stat(dir); err != nil {
-		t.Skipf("reference curves not found at %s (set FRAMED_REFERENCE_CURVES)", dir)
-	}
-	return dir
-}
-
 // loadReference reads every set's reported.csv and the curve of each row,
 // so a curve dropped into the folder with its reported row is checked too.
 func loadReference(t testing.TB) []refCase {
-	dir := referenceDirOrSkip(t)
+	// Real published tension tests (sources and licence in
+	// reference_test.go), found beside the repository or through
+	// $FRAMED_REFERENCE_CURVES.
+	dir := refcurves.Require(t)
 	sets, err := filepath.Glob(filepath.Join(dir, "*", "reported.csv"))
 	if err != nil || len(sets) == 0 {
 		t.Fatalf("no reported.csv under %s: %v", dir, err)
