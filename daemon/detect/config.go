@@ -89,8 +89,9 @@ const (
 	// resolution of a good dial gauge (common practice).
 	minSetThresholdMM = 0.001
 	// minNoiseFraction of ForceRangeN floors the estimated noise: about
-	// 17 noise-free bits, better than a cheap 24-bit bridge board delivers.
-	minNoiseFraction = 1e-5
+	// 20 noise-free bits, better than a 24-bit bridge board delivers
+	// (from memory). Coarser resolutions are floored by quantum.go.
+	minNoiseFraction = 1e-6
 )
 
 // withDefaults checks c and fills its zero fields.

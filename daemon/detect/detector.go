@@ -48,6 +48,9 @@ type Detector struct {
 	run  runState
 	brk  breakWatch
 
+	quantum     quantum
+	maxQuantumN float64
+
 	events  []reduce.Event
 	holds   []reduce.Hold
 	unloads []unloadRec
@@ -62,6 +65,7 @@ func New(cfg Config) (*Detector, error) {
 		return nil, err
 	}
 	d := &Detector{cfg: c, out: make([]Emission, 0, 8)}
+	d.maxQuantumN = c.HoldBandFraction * c.ForceRangeN / 4
 	d.brk.init(breakRingCap)
 	d.Reset()
 	return d, nil
@@ -78,6 +82,7 @@ func (d *Detector) Reset() {
 	d.lastT = math.NaN()
 	d.dtS = 0
 	d.samples = 0
+	d.quantum = quantum{}
 	d.idle.reset()
 	d.run = runState{}
 	d.brk.reset()
@@ -147,6 +152,7 @@ func (d *Detector) sample(s sample) {
 	}
 	d.lastT = s.t
 	d.samples++
+	d.quantum.see(s.f, d.maxQuantumN)
 	if d.state == Idle {
 		d.learn(s)
 	}

@@ -260,3 +260,27 @@ func TestHangerAloneDoesNotEnd(t *testing.T) {
 		t.Errorf("events %q, want the start and the hold under the first weight", k)
 	}
 }
+
+// TestCoarseResolution: a weighing indicator showing whole newtons, its
+// idle reading a flat zero; a load exactly between two digits flickers
+// between them. The holds must still be found: the noise floor is never
+// taken below half the resolution seen.
+func TestCoarseResolution(t *testing.T) {
+	g := detectgen.Wire(20, 6)
+	g.Sensor = detectgen.Sensor{ForceNoiseN: 0.1, ForceStepN: 1, ExtNoiseMM: 0.0005, ExtStepMM: 0.0001}
+	for i := range g.Levels {
+		if g.Levels[i].ForceN > 0 {
+			g.Levels[i].ForceN += 0.5
+		}
+	}
+	c, tr := g.Generate()
+	got := Offline(c, Config{ForceRangeN: 1000})
+	if len(got.Holds) != len(tr.Holds) {
+		t.Fatalf("%d holds, want %d: %+v", len(got.Holds), len(tr.Holds), got.Holds)
+	}
+	for i, h := range got.Holds {
+		if math.Abs(h.ForceN-tr.Holds[i].ForceN) > 0.5 {
+			t.Errorf("hold %d at %.2f N, want %.1f within the half digit", i, h.ForceN, tr.Holds[i].ForceN)
+		}
+	}
+}

@@ -135,7 +135,9 @@ func (d *Detector) seek(fs sample, rawT float64) {
 	if math.Abs(fs.f-r.bandRefN) > r.holdBandN {
 		r.lastMoveS = fs.t - r.bandStartS
 		if r.lastMoveS > 0 && finite(fs.ext) && finite(r.bandExtMM) {
-			if v := math.Abs(fs.ext-r.bandExtMM) / r.lastMoveS; !(v <= r.stepExtMMPerS) {
+			// Less the extension noise (the set threshold), so that a
+			// quick move of the force does not turn noise into pace.
+			if v := (math.Abs(fs.ext-r.bandExtMM) - r.setThrMM) / r.lastMoveS; v > 0 && !(v <= r.stepExtMMPerS) {
 				r.stepExtMMPerS = v
 			}
 		}
@@ -184,7 +186,7 @@ func (d *Detector) settled(w *block) bool {
 	if w.f.n < 8 {
 		return false
 	}
-	noise := d.cfg.SettleNoiseK * r.sigmaN
+	noise := d.cfg.SettleNoiseK * math.Max(r.sigmaN, d.noiseFloorN())
 	if w.f.residStd() > noise {
 		return false
 	}

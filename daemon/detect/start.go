@@ -148,6 +148,8 @@ func (d *Detector) begin(fs sample, rawT float64) {
 	s := &d.idle
 	sig := d.sigmaN()
 	r := &d.run
+	// (r.sigmaN is frozen here; the settle test still floors it by the
+	// resolution seen, see noiseFloorN.)
 	*r = runState{
 		baseN:        s.base,
 		sigmaN:       sig,
