@@ -13,6 +13,7 @@ import (
 	"path/filepath"
 	"slices"
 	"strconv"
+	"strings"
 	"sync"
 	"syscall"
 	"testing"
@@ -260,4 +261,42 @@ func statusMaybe(socket string) map[string]any {
 		return nil
 	}
 	return st
+}
+
+// processGone reports whether pid has exited (a zombie waiting for its new
+// parent to reap it counts as gone).
+func processGone(pid int) bool {
+	b, err := os.ReadFile(fmt.Sprintf("/proc/%d/stat", pid))
+	if err != nil {
+		return true
+	}
+	// the state follows the command name in parentheses
+	i := strings.LastIndexByte(string(b), ')')
+	return i < 0 || i+2 >= len(b) || b[i+2] == 'Z'
+}
+
+// When only the daemon dies (kill -9 of framed alone), its driver process
+// must not linger holding the serial port: it notices its host is gone and
+// exits within a few seconds, so a restarted daemon can open the port.
+func TestOrphanedDriverExitsIntegration(t *testing.T) {
+	state := t.TempDir()
+	specs := e2eSpecimens(t)
+	cfgJSON, _ := json.Marshal(map[string]any{
+		"frame": "orphan", "state_dir": state, "broker": fmt.Sprintf("embedded:127.0.0.1:%d", brokertest.FreePort(t)),
+		"drivers": []any{map[string]any{"name": "sim", "kind": "sim", "config": json.RawMessage(simConfig(t, specs, true))}},
+	})
+	cfgPath := filepath.Join(t.TempDir(), "framed.json")
+	if err := os.WriteFile(cfgPath, cfgJSON, 0o600); err != nil {
+		t.Fatal(err)
+	}
+	cmd := startChild(t, cfgPath)
+	socket := filepath.Join(state, daemon.ControlSocketName)
+	waitFor(t, 60*time.Second, "the daemon to answer", func() bool { return callOK(socket) })
+	pid := int(driverField(status(t, socket), "pid"))
+	if pid <= 0 {
+		t.Fatal("no driver pid")
+	}
+	cmd.Process.Kill() // the daemon alone
+	cmd.Wait()
+	waitFor(t, 10*time.Second, fmt.Sprintf("driver %d to exit after its host died", pid), func() bool { return processGone(pid) })
 }

@@ -2,6 +2,7 @@ package drivers
 
 import (
 	"os"
+	"time"
 
 	"github.com/hashicorp/go-hclog"
 	"github.com/hashicorp/go-plugin"
@@ -20,6 +21,7 @@ const maxMessageBytes = 64 << 20
 // drivers/builtin); it does not return until the host is gone. Started by
 // hand rather than by a host, it prints a short notice and exits with 1.
 func Serve(d Driver) {
+	go exitWithHost(os.Getppid(), time.Second)
 	plugin.Serve(&plugin.ServeConfig{
 		HandshakeConfig: Handshake,
 		Plugins:         PluginMap(d),
@@ -40,4 +42,17 @@ func Serve(d Driver) {
 			JSONFormat: true,
 		}),
 	})
+}
+
+// exitWithHost ends the driver process when the host that started it is
+// gone (killed with SIGKILL, or a power cut of the daemon alone leaves
+// the child re-parented): an orphaned driver would hold the serial port
+// and keep the restarted daemon's new driver from opening it.
+func exitWithHost(hostPID int, every time.Duration) {
+	for {
+		time.Sleep(every)
+		if os.Getppid() != hostPID {
+			os.Exit(3)
+		}
+	}
 }
