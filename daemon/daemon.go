@@ -263,6 +263,9 @@ func (d *Daemon) loop(ctx context.Context, batches <-chan driverBatch, notes <-c
 	}
 	var lastLive time.Time
 	cal := d.loadCalibrations()
+	prune := time.NewTicker(retentionEvery)
+	defer prune.Stop()
+	d.applyRetention()
 	for {
 		select {
 		case <-ctx.Done():
@@ -282,6 +285,8 @@ func (d *Daemon) loop(ctx context.Context, batches <-chan driverBatch, notes <-c
 				life.flag("data-gap")
 				d.log.Warn("driver stream broke", "driver", d.cfg.Drivers[n.driver].Name, "err", errString(n.err))
 			}
+		case <-prune.C:
+			d.applyRetention()
 		case <-d.calChanged:
 			cal = d.loadCalibrations()
 		case <-health.C:
@@ -475,4 +480,27 @@ func (d *Daemon) recoverTests(skip string) bool {
 		d.handOff(finishedTest{id: t.ID, specimen: sp, hasSpec: hasSpec, detected: det, flags: append(flags, t.Flags...), started: t.StartedAt})
 	}
 	return ok
+}
+
+// retentionEvery is how often the retention policy is applied.
+const retentionEvery = 10 * time.Minute
+
+// applyRetention deletes raw data the configured policy no longer keeps;
+// the store never deletes a test whose result is not yet delivered.
+func (d *Daemon) applyRetention() {
+	p := store.RetentionPolicy{
+		MaxAge:   time.Duration(d.cfg.Store.RetentionDays * 24 * float64(time.Hour)),
+		MaxBytes: int64(d.cfg.Store.RetentionMB * 1e6),
+	}
+	if p.MaxAge == 0 && p.MaxBytes == 0 {
+		return
+	}
+	deleted, err := d.db.Prune(p, time.Now())
+	if err != nil {
+		d.log.Error("retention", "err", err)
+		return
+	}
+	if len(deleted) > 0 {
+		d.log.Info("retention deleted old tests", "count", len(deleted), "oldest", deleted[0])
+	}
 }
