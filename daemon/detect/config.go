@@ -67,7 +67,8 @@ type Config struct {
 	BreakWindowS float64
 
 	// EndHoldS: a test whose force has rested unloaded this long has ended
-	// (default 30 s).
+	// (default 120 s: longer than an operator takes to read the set
+	// between load cycles, far shorter than a night).
 	EndHoldS float64
 }
 
@@ -84,7 +85,7 @@ const (
 	DefaultHoldCrossheadMaxMMPerS = 0.002
 	DefaultBreakDropFraction      = 0.2
 	DefaultBreakWindowS           = 0.05
-	DefaultEndHoldS               = 30
+	DefaultEndHoldS               = 120
 	// minSetThresholdMM is the floor of the automatic set threshold: the
 	// resolution of a good dial gauge (common practice).
 	minSetThresholdMM = 0.001

@@ -40,7 +40,11 @@ func (d *Detector) learn(x sample) {
 	if w := d.dtS / idleTauS; a < w {
 		a = w
 	}
-	near := s.n <= 3 || math.Abs(x.f-s.base) <= 6*d.sigmaN()
+	// Near: within six noise floors, or six resolution steps, so a noise
+	// floor learnt as nothing from a few equal readings cannot shut out
+	// all later ones.
+	gate := 6 * math.Max(d.sigmaN(), d.quantum.stepN)
+	near := s.n <= 3 || math.Abs(x.f-s.base) <= gate
 	prevNear := s.lastNear
 	s.lastNear = near
 	if s.n == 1 {
