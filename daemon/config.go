@@ -107,6 +107,9 @@ type StoreConfig struct {
 // data and wrong types are errors that name the problem.
 func ParseConfig(data []byte) (Config, error) {
 	var c Config
+	if len(bytes.TrimSpace(data)) == 0 {
+		return Config{}, fmt.Errorf("%w: the file is empty; see deploy/framed.example.json", ErrBadConfig)
+	}
 	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	if err := dec.Decode(&c); err != nil {
