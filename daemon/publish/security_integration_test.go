@@ -354,7 +354,7 @@ func TestSecurityTLSPasswordDeliveryIntegration(t *testing.T) {
 	status := secSubscribe(t, b.url, "lab-lims", "framed/+/status", b.tlsConfig(t, false))
 	db := secStore(t, "T-tls-1")
 
-	secPublisher(t, publish.Config{
+	p := secPublisher(t, publish.Config{
 		Broker: b.url, Username: "frameA", Password: secUsers["frameA"], CAFile: b.pki.CAFile,
 	}, db, nil)
 	waitResult(t, lims, "T-tls-1")
@@ -372,6 +372,26 @@ func TestSecurityTLSPasswordDeliveryIntegration(t *testing.T) {
 			t.Fatal("frameA's status never arrived")
 		}
 		time.Sleep(10 * time.Millisecond)
+	}
+
+	// The way back: the lab system queues a specimen and the frame, which
+	// may read only its own queue, receives it. The publisher subscribes
+	// in the background after connecting, so the lab sends until it lands.
+	lab := secMustConnect(t, b.url, "lab-lims", b.tlsConfig(t, false))
+	deadline = time.Now().Add(15 * time.Second)
+	for {
+		secPublish(t, lab, "framed/frameA/specimens", `{"id":"S-TLS-1","shape":"round","d0_mm":10}`)
+		select {
+		case s := <-p.Specimens():
+			if s.ID != "S-TLS-1" {
+				t.Fatalf("specimen %q arrived, want S-TLS-1", s.ID)
+			}
+			return
+		case <-time.After(200 * time.Millisecond):
+		}
+		if time.Now().After(deadline) {
+			t.Fatal("the specimen queued by the lab never reached the frame")
+		}
 	}
 }
 
