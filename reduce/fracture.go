@@ -1,7 +1,5 @@
 package reduce
 
-import "math"
-
 // Fracture: the last sample before the force falls away. ASTM E8 takes the
 // elongation at fracture just before the force falls below 10 % of Fm
 // (secondary source); records that stop at the break (common practice for
@@ -72,5 +70,3 @@ func (w *work) breakEvent() Event {
 	}
 	return e
 }
-
-var _ = math.Abs

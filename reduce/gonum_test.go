@@ -5,6 +5,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
+	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat"
 )
 
@@ -95,5 +96,38 @@ func TestModulusMatchesGonum(t *testing.T) {
 	}
 	if len(xs) != res.Fit.Points || math.Abs(e/beta-1) > 1e-6 {
 		t.Errorf("E %v MPa over %d points, gonum %v over %d", e, res.Fit.Points, beta, len(xs))
+	}
+}
+
+// TestQuadraticMatchesGonum cross-checks the quadratic fit behind the
+// elastic window's bend test against gonum's least-squares solve
+// (mat.Dense.Solve, QR) of the same design matrix.
+func TestQuadraticMatchesGonum(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	k := 200
+	var s sums
+	design := mat.NewDense(k, 3, nil)
+	y := mat.NewVecDense(k, nil)
+	for i := 0; i < k; i++ {
+		x := 0.001 + 0.004*float64(i)/float64(k-1)
+		v := 5 + 200000*x - 4e6*x*x + rng.NormFloat64()
+		s.add(x, v)
+		design.Set(i, 0, 1)
+		design.Set(i, 1, x)
+		design.Set(i, 2, x*x)
+		y.SetVec(i, v)
+	}
+	a, b, c, ok := solve3([5]float64{s.n, s.sx, s.sxx, s.sx3, s.sx4}, [3]float64{s.sy, s.sxy, s.sx2y})
+	if !ok {
+		t.Fatal("no solution")
+	}
+	var beta mat.VecDense
+	if err := beta.SolveVec(design, y); err != nil {
+		t.Fatal(err)
+	}
+	for i, got := range []float64{a, b, c} {
+		if want := beta.AtVec(i); math.Abs(got-want) > 1e-6*math.Abs(want) {
+			t.Errorf("coefficient %d: %v, gonum %v", i, got, want)
+		}
 	}
 }

@@ -104,12 +104,10 @@ func (s sums) bend(xMin, xMax float64) (relChange, f float64, ok bool) {
 	}
 	relChange = math.Abs(2 * c * (xMax - xMin) / slope)
 	// SSE of the line and of the quadratic.
-	mx, my := s.sx/s.n, s.sy/s.n
-	sxx := s.sxx - s.sx*mx
+	my := s.sy / s.n
 	sxy := s.sxy - s.sx*my
 	syy := s.syy - s.sy*my
 	sseLin := syy - l.slope*sxy
-	_ = sxx
 	sseQ := s.syy - a*s.sy - b*s.sxy - c*s.sx2y
 	if sseQ <= 0 {
 		return relChange, math.Inf(1), true

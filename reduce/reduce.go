@@ -1,7 +1,5 @@
 package reduce
 
-import "fmt"
-
 // Reduce computes the result document of one recorded test: the
 // quantities of ISO 6892-1 / ASTM E8 / E111 / E646 that the data supports,
 // each with its method and expanded uncertainty (k=2), and flags for what
@@ -61,5 +59,3 @@ func hasBreak(ev []Event) bool {
 	}
 	return false
 }
-
-var _ = fmt.Sprint
