@@ -23,8 +23,9 @@ const (
 	// FlagPoorElasticFit: the best elastic window's r^2 or V1 fails the
 	// limits in Options; E is reported but should not be trusted.
 	FlagPoorElasticFit = "poor-elastic-fit"
-	// FlagNoElasticFit: no elastic window could be fitted; E, Rp, Ag and A
-	// from extension are not reported.
+	// FlagNoElasticFit: no elastic window could be fitted, or the best one
+	// is no line (r^2 below 0.95: holds and creep of a dead-weight record,
+	// a slipping grip); E, Rp, Ag and A from extension are not reported.
 	FlagNoElasticFit = "no-elastic-fit"
 	// FlagProofNotReached: the curve (or the extensometer record) ends
 	// before a requested proof extension.
