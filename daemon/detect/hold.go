@@ -194,13 +194,15 @@ func (d *Detector) settled(w *block) bool {
 	if w.xh.n >= w.f.n/2 {
 		return drift <= r.holdBandN && math.Abs(w.xh.slope()) <= d.cfg.HoldCrossheadMaxMMPerS
 	}
-	// Without a crosshead, a hold must follow a load step: the force
-	// crossed the hold band quickly before it settled. A continuous test
-	// creeping slowly over its flat top does not.
-	// And the extension, if read, must have slowed down well below its
-	// pace during the step: creep under dead weights is slow next to the
+	// Without a crosshead the force of a hold is constant: its scatter
+	// about the mean (not about a line, which could take up part of a
+	// slow swing) must be within the noise. A hold must follow a load
+	// step: the force crossed the hold band quickly before it settled; a
+	// continuous test creeping slowly over its flat top does not. And the
+	// extension, if read, must have slowed down well below its pace
+	// during the step: creep under dead weights is slow next to the
 	// stretch a step gives, while a continuous test keeps its pace.
-	if drift > 2*noise || r.lastMoveS > stepMaxS {
+	if drift > 2*noise || w.f.std() > noise || r.lastMoveS > stepMaxS {
 		return false
 	}
 	if w.ext.n >= w.f.n/2 && finite(r.stepExtMMPerS) {

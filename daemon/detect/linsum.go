@@ -73,3 +73,15 @@ func (l *linsum) residStd() float64 {
 	}
 	return math.Sqrt(r / (l.n - 2))
 }
+
+// std is the standard deviation of the samples about their mean.
+func (l *linsum) std() float64 {
+	if l.n < 2 {
+		return math.Inf(1)
+	}
+	v := (l.svv - l.sv*l.sv/l.n) / (l.n - 1)
+	if v < 0 {
+		v = 0
+	}
+	return math.Sqrt(v)
+}

@@ -21,6 +21,8 @@ type idleStats struct {
 	aboveN            int
 	haveQuiet         bool
 	lastNear          bool
+	lastNear2         bool
+	lastF2            float64
 	varN              int
 }
 
@@ -45,19 +47,22 @@ func (d *Detector) learn(x sample) {
 	// all later ones.
 	gate := 6 * math.Max(d.sigmaN(), d.quantum.stepN)
 	near := s.n <= 3 || math.Abs(x.f-s.base) <= gate
-	prevNear := s.lastNear
-	s.lastNear = near
+	prevNear, prevNear2 := s.lastNear, s.lastNear2
+	s.lastNear, s.lastNear2 = near, prevNear
 	if s.n == 1 {
 		s.base = x.f
 	} else if near {
-		if prevNear {
-			df := x.f - s.lastF
-			s.varF += a * (df*df/2 - s.varF)
+		if prevNear && prevNear2 && s.n > 2 {
+			// Second differences: a slow ramp (a test beginning
+			// gently) cancels out and cannot pass for noise. For white
+			// noise their variance is six times the noise's.
+			d2 := x.f - 2*s.lastF + s.lastF2
+			s.varF += a * (d2*d2/6 - s.varF)
 			s.varN++
 		}
 		s.base += a * (x.f - s.base)
 	}
-	s.lastF = x.f
+	s.lastF, s.lastF2 = x.f, s.lastF
 	if !near {
 		return
 	}
