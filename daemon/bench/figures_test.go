@@ -1,0 +1,93 @@
+package bench
+
+import (
+	"bytes"
+	"encoding/json"
+	"math"
+	"strings"
+	"testing"
+)
+
+// The JSON is the contract of `framectl bench --json` (design.md):
+// {"figures": [{"name", "value", "unit", "limit", "ratio"}]}, ratio =
+// value / limit, and a figure not measured carries null, not NaN (which
+// JSON cannot hold).
+func TestReportJSONContract(t *testing.T) {
+	var r Report
+	r.add(Figure{Name: "ingest", Value: 3e6, Unit: "samples/s", Limit: 4e6, LimitKind: LimitMeasured})
+	r.add(Figure{Name: "latency_p99", Value: nan, Unit: "ms", Limit: 100, LimitKind: LimitTarget})
+	raw, err := json.Marshal(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got struct {
+		Figures []map[string]any `json:"figures"`
+	}
+	if err := json.Unmarshal(raw, &got); err != nil {
+		t.Fatal(err)
+	}
+	if len(got.Figures) != 2 {
+		t.Fatalf("%d figures in %s", len(got.Figures), raw)
+	}
+	for _, f := range got.Figures {
+		for _, k := range []string{"name", "value", "unit", "limit", "ratio"} {
+			if _, ok := f[k]; !ok {
+				t.Errorf("figure %v lacks %q", f["name"], k)
+			}
+		}
+	}
+	if r := got.Figures[0]["ratio"].(float64); math.Abs(r-0.75) > 1e-12 {
+		t.Errorf("ratio %v, want 3e6/4e6 = 0.75", r)
+	}
+	if got.Figures[1]["value"] != nil || got.Figures[1]["ratio"] != nil {
+		t.Errorf("unmeasured figure %v: want null value and ratio", got.Figures[1])
+	}
+}
+
+func TestWriteTableShowsEveryFigure(t *testing.T) {
+	var r Report
+	r.add(Figure{Name: "cpu_1khz", Value: 2, Unit: "% of one core", Limit: 5, Pass: passIf(true)})
+	r.add(Figure{Name: "write_amplification", Value: 7.5, Limit: 3, Pass: passIf(false), Note: "why"})
+	var b bytes.Buffer
+	if err := r.WriteTable(&b); err != nil {
+		t.Fatal(err)
+	}
+	out := b.String()
+	for _, want := range []string{"cpu_1khz", "0.4", "yes", "write_amplification", "2.50", "NO", "write_amplification: why"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("table lacks %q:\n%s", want, out)
+		}
+	}
+}
+
+// Nearest-rank percentiles (Hyndman and Fan 1996, definition 1): of
+// 1..100, p50 is 50 and p99 is 99; of four values p99 is the largest.
+func TestQuantileNearestRank(t *testing.T) {
+	v := make([]float64, 100)
+	for i := range v {
+		v[i] = float64(i + 1)
+	}
+	if q := quantile(v, 0.5); q != 50 {
+		t.Errorf("p50 of 1..100 = %v", q)
+	}
+	if q := quantile(v, 0.99); q != 99 {
+		t.Errorf("p99 of 1..100 = %v", q)
+	}
+	if q := quantile([]float64{1, 2, 3, 40}, 0.99); q != 40 {
+		t.Errorf("p99 of 4 values = %v", q)
+	}
+	if q := quantile(nil, 0.5); !math.IsNaN(q) {
+		t.Errorf("p50 of nothing = %v, want NaN", q)
+	}
+}
+
+func TestPlanRefusesUnknownMode(t *testing.T) {
+	if _, err := (Options{Mode: "fast"}).plan(); err == nil {
+		t.Error("mode fast accepted")
+	}
+	for _, m := range []string{"", ModeQuick, ModeDefault, ModeLong} {
+		if _, err := (Options{Mode: m}).plan(); err != nil {
+			t.Errorf("mode %q: %v", m, err)
+		}
+	}
+}

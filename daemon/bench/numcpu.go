@@ -1,0 +1,5 @@
+package bench
+
+import "runtime"
+
+func numCPU() int { return runtime.NumCPU() }
