@@ -9,21 +9,22 @@ import (
 // idleStats learns, while no test runs, the force baseline and noise floor
 // and the extension and crosshead at rest, and watches for the start.
 type idleStats struct {
-	n                 int
-	lastF, base, varF float64
-	extN              int
-	lastExt, extRef   float64
-	varExt            float64
-	xhN               int
-	xhRef             float64
-	lastQuietS        float64
-	aboveSinceS       float64
-	aboveN            int
-	haveQuiet         bool
-	lastNear          bool
-	lastNear2         bool
-	lastF2            float64
-	varN              int
+	n               int
+	lastF, base     float64
+	noise           noiseEst
+	extN            int
+	lastExt, extRef float64
+	varExt          float64
+	xhN             int
+	xhRef           float64
+	lastQuietS      float64
+	aboveSinceS     float64
+	aboveN          int
+	haveQuiet       bool
+	lastNear        bool
+	lastNear2       bool
+	lastBaseNear    bool
+	lastF2          float64
 }
 
 func (s *idleStats) reset() { *s = idleStats{extRef: math.NaN(), xhRef: math.NaN()} }
@@ -42,27 +43,26 @@ func (d *Detector) learn(x sample) {
 	if w := d.dtS / idleTauS; a < w {
 		a = w
 	}
-	// Near: within six noise floors, or six resolution steps, so a noise
-	// floor learnt as nothing from a few equal readings cannot shut out
-	// all later ones.
-	gate := 6 * math.Max(d.sigmaN(), d.quantum.stepN)
-	near := s.n <= 3 || math.Abs(x.f-s.base) <= gate
-	prevNear, prevNear2 := s.lastNear, s.lastNear2
-	s.lastNear, s.lastNear2 = near, prevNear
+	// The noise is learnt from every reading below half the start
+	// threshold (see noiseEst): no gate drawn from the estimate itself
+	// can trap it too small.
+	quiet := s.n <= 3 || math.Abs(x.f-s.base) <= d.startThresholdN()/2
+	prevQuiet, prevQuiet2 := s.lastNear, s.lastNear2
+	s.lastNear, s.lastNear2 = quiet, prevQuiet
+	if quiet && prevQuiet && prevQuiet2 && s.n > 2 {
+		s.noise.add(x.f - 2*s.lastF + s.lastF2)
+	}
+	s.lastF, s.lastF2 = x.f, s.lastF
+	// The baseline and the rest readings only from readings within six
+	// noise floors of it, so a slow ramp cannot drag them along.
+	near := s.n <= 3 || math.Abs(x.f-s.base) <= 6*math.Max(d.sigmaN(), d.quantum.stepN)
+	prevNear := s.lastBaseNear
+	s.lastBaseNear = near
 	if s.n == 1 {
 		s.base = x.f
 	} else if near {
-		if prevNear && prevNear2 && s.n > 2 {
-			// Second differences: a slow ramp (a test beginning
-			// gently) cancels out and cannot pass for noise. For white
-			// noise their variance is six times the noise's.
-			d2 := x.f - 2*s.lastF + s.lastF2
-			s.varF += a * (d2*d2/6 - s.varF)
-			s.varN++
-		}
 		s.base += a * (x.f - s.base)
 	}
-	s.lastF, s.lastF2 = x.f, s.lastF
 	if !near {
 		return
 	}
@@ -103,16 +103,12 @@ func (d *Detector) sigmaN() float64 {
 		return d.cfg.NoiseFloorN
 	}
 	s := &d.idle
-	sig := math.Sqrt(s.varF)
-	if s.varN > 0 {
+	sig := s.noise.sigmaN
+	if n := s.noise.count(); n > 0 {
 		// Widen an estimate from few readings by its own uncertainty
-		// (about 1/sqrt(2n) relative for a standard deviation): a short
+		// (about 1/sqrt(n) relative for a median-based one): a short
 		// idle period must not make the settle test too strict.
-		nEff := float64(s.varN)
-		if d.dtS > 0 {
-			nEff = math.Min(nEff, 2*idleTauS/d.dtS)
-		}
-		sig *= 1 + 2/math.Sqrt(nEff)
+		sig *= 1 + 2/math.Sqrt(float64(n))
 	}
 	return math.Max(sig, minNoiseFraction*d.cfg.ForceRangeN)
 }
