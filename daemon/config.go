@@ -57,6 +57,9 @@ type MQTTConfig struct {
 	KeyFile  string `json:"key_file,omitempty"`
 	// LiveHz throttles framed/<frame>/live (0: 5 Hz; negative: off).
 	LiveHz float64 `json:"live_hz,omitempty"`
+	// RemoteCommands allows commands on framed/<frame>/commands, from the
+	// documented set ("resend", "status"). Empty, the default: none.
+	RemoteCommands []string `json:"remote_commands,omitempty"`
 }
 
 // DriverConfig is one driver process.
@@ -256,6 +259,10 @@ func ParseBroker(s string) (kind, addr string, err error) {
 		return "embedded", addr, nil
 	case strings.HasPrefix(s, "tcp://"), strings.HasPrefix(s, "ssl://"):
 		hp := s[6:]
+		if strings.Contains(hp, "@") {
+			// Never echo it: the URL holds a secret.
+			return "", "", fmt.Errorf("%w: the broker URL carries a user name or password; set mqtt.username and mqtt.password_file instead", ErrBadConfig)
+		}
 		if i := strings.LastIndex(hp, ":"); i <= 0 || i == len(hp)-1 {
 			return "", "", fmt.Errorf("%w: broker %q: want %s//host:port", ErrBadConfig, s, s[:4])
 		}

@@ -218,6 +218,10 @@ func (d *Daemon) startPublisher(ctx context.Context) error {
 	if d.cfg.MQTT.LiveHz > 0 {
 		pc.LiveRateHz = d.cfg.MQTT.LiveHz
 	}
+	pc.Commands = d.cfg.MQTT.RemoteCommands
+	if pc.Username != "" && pc.Username != d.cfg.Frame {
+		d.log.Warn("the broker user name differs from the frame id: with per-frame topic rules (deploy/mosquitto) the broker acknowledges and drops this frame's results", "frame", d.cfg.Frame, "username", pc.Username)
+	}
 	p, err := publish.New(pc, d.db, d.log)
 	if err != nil {
 		return err
@@ -231,6 +235,11 @@ func (d *Daemon) startPublisher(ctx context.Context) error {
 			if err := d.spec.push(sp); err != nil {
 				d.log.Warn("specimen not queued", "specimen", sp.ID, "err", err)
 			}
+		}
+	}()
+	go func() {
+		for c := range p.Commands() {
+			d.remoteCommand(c)
 		}
 	}()
 	return nil
@@ -402,7 +411,7 @@ func finite(v float64) *float64 {
 
 // publishEvent implements eventSink.
 func (d *Daemon) publishEvent(testID string, ev reduce.Event, extra map[string]any) {
-	d.pub.Event(publish.EventMsg{TestID: testID, Kind: ev.Kind, TimeS: ev.TimeS, ForceN: ev.ForceN})
+	d.pub.Event(publish.EventMsg{TestID: testID, Kind: ev.Kind, TimeS: ev.TimeS, ForceN: ev.ForceN, Detail: extra})
 }
 
 func (d *Daemon) forceRangeN() float64 {
@@ -502,5 +511,17 @@ func (d *Daemon) applyRetention() {
 	}
 	if len(deleted) > 0 {
 		d.log.Info("retention deleted old tests", "count", len(deleted), "oldest", deleted[0])
+	}
+}
+
+// remoteCommand carries out an allowed remote command.
+func (d *Daemon) remoteCommand(c publish.Command) {
+	switch c.Cmd {
+	case publish.CommandResend:
+		if err := d.db.Requeue(c.TestID); err != nil {
+			d.log.Warn("remote resend refused", "test", c.TestID, "err", err)
+			return
+		}
+		d.pub.Notify()
 	}
 }

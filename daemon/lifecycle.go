@@ -108,12 +108,12 @@ func (l *lifecycle) handle(em detect.Emission) error {
 	rel.TimeS = roundUS(ev.TimeS - l.test.t0S)
 	extra := map[string]any{}
 	if em.Hold != nil {
-		extra["force_N"] = em.Hold.ForceN
+		extra["force_N"] = finiteOrNil(em.Hold.ForceN)
 		extra["extension_mm"] = finiteOrNil(em.Hold.ExtensionMM)
 	}
 	if em.Unload != nil {
 		extra["set_mm"] = finiteOrNil(em.Unload.SetMM)
-		extra["after_force_N"] = em.Unload.AfterForceN
+		extra["after_force_N"] = finiteOrNil(em.Unload.AfterForceN)
 	}
 	l.sink.publishEvent(l.test.id, rel, extra)
 	if ev.Kind == reduce.EventEnd {

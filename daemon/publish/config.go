@@ -7,6 +7,7 @@ import (
 	"net"
 	"net/url"
 	"os"
+	"slices"
 	"strings"
 	"time"
 )
@@ -45,6 +46,10 @@ type Config struct {
 	LiveRateHz float64
 	// MaxSpecimenBytes refuses larger specimen messages, default 64 KiB.
 	MaxSpecimenBytes int
+	// Commands lists the remote commands accepted on <root>/<frame>/commands
+	// (a subset of RemoteCommands). Empty, the default: none, and the topic
+	// is not even subscribed.
+	Commands []string
 }
 
 func (c Config) withDefaults() Config {
@@ -81,7 +86,17 @@ func (c Config) Validate() error {
 	c = c.withDefaults()
 	u, err := url.Parse(c.Broker)
 	if err != nil {
-		return fmt.Errorf("%w: broker %q: %v", ErrBadConfig, c.Broker, err)
+		// The parse error quotes the URL, which may hold a password.
+		return fmt.Errorf("%w: the broker URL does not parse; want tcp://host:port or ssl://host:port", ErrBadConfig)
+	}
+	if u.User != nil {
+		// Never echo it: the URL holds a secret.
+		return fmt.Errorf("%w: broker URL %s carries a user name or password: give them as the username and password settings instead", ErrBadConfig, u.Redacted())
+	}
+	for _, cmd := range c.Commands {
+		if !slices.Contains(RemoteCommands, cmd) {
+			return fmt.Errorf("%w: remote command %q: the commands that can be allowed are %v", ErrBadConfig, cmd, RemoteCommands)
+		}
 	}
 	if u.Scheme != "tcp" && u.Scheme != "ssl" {
 		return fmt.Errorf("%w: broker %q: scheme must be tcp:// or ssl://", ErrBadConfig, c.Broker)

@@ -13,4 +13,6 @@ var (
 	ErrStarted = errors.New("publish: already started")
 	// ErrBadSpecimen: an inbound specimen message was refused.
 	ErrBadSpecimen = errors.New("publish: bad specimen message")
+	// ErrBadCommand: a remote command message was malformed or not allowed.
+	ErrBadCommand = errors.New("publish: bad remote command")
 )

@@ -78,6 +78,9 @@ type EventMsg struct {
 	ForceN *float64 `json:"force_N,omitempty"`
 	// At is the wall-clock time, RFC 3339, when known.
 	At string `json:"at,omitempty"`
+	// Detail carries what the event found: a hold's settled force and
+	// extension, an unload's permanent set. Values must be finite or nil.
+	Detail map[string]any `json:"detail,omitempty"`
 }
 
 // Event publishes an event with QoS 1, best effort: it is not persisted,

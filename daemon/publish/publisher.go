@@ -30,6 +30,7 @@ type Publisher struct {
 
 	notify    chan struct{}
 	specimens chan reduce.Specimen
+	commands  chan Command
 
 	closing atomic.Bool
 
@@ -80,6 +81,7 @@ func New(cfg Config, db *store.DB, logger *slog.Logger) (*Publisher, error) {
 		topics:    newTopics(cfg.Root, cfg.Frame),
 		notify:    make(chan struct{}, 1),
 		specimens: make(chan reduce.Specimen, 32),
+		commands:  make(chan Command, 8),
 		up:        make(chan struct{}),
 		lost:      make(chan struct{}),
 	}
@@ -172,6 +174,9 @@ func (p *Publisher) onConnect(c mqtt.Client) {
 	p.mu.Unlock()
 	if !p.closing.Load() {
 		c.Publish(p.topics.status, 1, true, p.statusPayload("online", time.Now()))
+	}
+	if len(p.cfg.Commands) > 0 {
+		c.Subscribe(p.topics.commands, 1, p.onCommand)
 	}
 	sub := c.Subscribe(p.topics.specimens, 1, p.onSpecimen)
 	p.Notify()

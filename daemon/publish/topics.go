@@ -7,7 +7,7 @@ import (
 
 // topics are the contract's topic names for one frame.
 type topics struct {
-	status, events, live, specimens, resultsPrefix string
+	status, events, live, specimens, commands, resultsPrefix string
 }
 
 func newTopics(root, frame string) topics {
@@ -17,6 +17,7 @@ func newTopics(root, frame string) topics {
 		events:        base + "events",
 		live:          base + "live",
 		specimens:     base + "specimens",
+		commands:      base + "commands",
 		resultsPrefix: base + "results/",
 	}
 }
