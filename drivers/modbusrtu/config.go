@@ -26,7 +26,9 @@ type Config struct {
 	SlaveID int `json:"slave_id"`
 	// PollHz is the poll rate (default 20).
 	PollHz float64 `json:"poll_hz"`
-	// TimeoutMS is how long one request waits for its answer (default 100).
+	// TimeoutMS is how long one request waits for its answer (default 100,
+	// at most 1000: a request in flight cannot be interrupted, so this also
+	// bounds how long stopping a stream can take).
 	TimeoutMS int `json:"timeout_ms"`
 	// Retries after a CRC error, timeout or exception within one poll
 	// (default 2; 0 means none).
@@ -130,8 +132,8 @@ func (c *Config) normalise() error {
 	if c.TimeoutMS == 0 {
 		c.TimeoutMS = 100
 	}
-	if c.TimeoutMS < 5 || c.TimeoutMS > 5000 {
-		return fmt.Errorf("timeout_ms %d not in 5..5000", c.TimeoutMS)
+	if c.TimeoutMS < 5 || c.TimeoutMS > 1000 {
+		return fmt.Errorf("timeout_ms %d not in 5..1000", c.TimeoutMS)
 	}
 	if c.Retries == nil {
 		r := 2
