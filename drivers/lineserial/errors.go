@@ -10,6 +10,4 @@ var (
 	ErrGarbled = errors.New("lineserial: garbled line")
 	// ErrChecksum: the line's checksum is missing or does not match.
 	ErrChecksum = errors.New("lineserial: checksum mismatch")
-	// ErrOverlong: the line exceeded max_line_bytes before its newline.
-	ErrOverlong = errors.New("lineserial: line too long")
 )
