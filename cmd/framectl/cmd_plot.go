@@ -2,7 +2,6 @@ package main
 
 import (
 	"context"
-	"errors"
 	"flag"
 	"fmt"
 	"image/color"
@@ -28,15 +27,13 @@ func init() {
 	})
 }
 
-// errStoredNotYet: plotting a stored test by id is wired up with the
-// daemon's store.
-var errStoredNotYet = errors.New("stored tests: not yet supported")
 
 func runPlot(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs := flag.NewFlagSet("plot", flag.ContinueOnError)
 	fs.SetOutput(stderr)
 	geo := addGeometryFlags(fs)
 	out := fs.String("o", "", "output file, .png or .svg")
+	state := stateFlag(fs)
 	fs.Usage = func() {
 		fmt.Fprintln(stderr, "usage: framectl plot FILE.csv|TEST-ID -o OUT.png|OUT.svg [geometry flags as for reduce]")
 		fs.PrintDefaults()
@@ -53,7 +50,20 @@ func runPlot(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	}
 	src := pos[0]
 	if st, err := os.Stat(src); err != nil || st.IsDir() {
-		return fmt.Errorf("%q is not a curve file; %w", src, errStoredNotYet)
+		// Not a file: a stored test id, plotted with its own result.
+		dir, derr := stateDir(*state)
+		if derr != nil {
+			return fmt.Errorf("%q is not a curve file; for a stored test %w", src, derr)
+		}
+		c, res, err := loadStoredTest(ctx, dir, src)
+		if err != nil {
+			return err
+		}
+		if err := plotResult(c, res, *out); err != nil {
+			return err
+		}
+		fmt.Fprintf(stdout, "wrote %s\n", *out)
+		return nil
 	}
 	sp, err := geo.specimen()
 	if err != nil {

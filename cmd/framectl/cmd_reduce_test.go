@@ -158,8 +158,8 @@ func TestPlotCommand(t *testing.T) {
 	}
 	var out, errb bytes.Buffer
 	if code := run([]string{"plot", "T-000123", "-o", filepath.Join(dir, "x.png"), "--S0", "20", "--L0", "50"}, &out, &errb); code == 0 ||
-		!strings.Contains(errb.String(), "stored tests: not yet supported") {
-		t.Errorf("stored test id: exit %d, %q", code, errb.String())
+		!strings.Contains(errb.String(), "--state DIR") {
+		t.Errorf("stored test id without a state dir: exit %d, %q", code, errb.String())
 	}
 	if code := run([]string{"plot", path, "-o", filepath.Join(dir, "x.pdf"), "--S0", "20", "--L0", "50"}, &out, &errb); code != 2 {
 		t.Errorf("pdf output: exit %d, want 2", code)
