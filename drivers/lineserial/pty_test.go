@@ -156,7 +156,9 @@ func TestStreamOverPtyIntegration(t *testing.T) {
 	after := collect(t, ch, 50, 5*time.Second)
 	// Board times of a burst run up to 49 ms ahead of its receipt, so the
 	// gap seen is at least 150 - 49 ms.
-	if after[0].GapBefore < 100*time.Millisecond || after[0].GapBefore > time.Since(unplugged) {
+	// The gap also holds the 30 ms before the unplug; one extra second is
+	// a loose sanity bound for a loaded machine.
+	if after[0].GapBefore < 100*time.Millisecond || after[0].GapBefore > time.Since(unplugged)+time.Second {
 		t.Errorf("first batch after replug has GapBefore %v, want the ~150 ms away", after[0].GapBefore)
 	}
 	if f := after[0].Values[0][0]; f != 1000 {
