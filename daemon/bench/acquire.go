@@ -34,11 +34,26 @@ func (a acquisition) rssMaxMB() float64 {
 // rssGrowthMB is the mean of the last fifth of the RSS samples minus the
 // mean of the first fifth: how much memory the test's length added.
 func (a acquisition) rssGrowthMB() float64 {
-	k := max(1, len(a.rss)/5)
 	if len(a.rss) < 2 {
 		return 0
 	}
-	return mean(a.rss[len(a.rss)-k:]) - mean(a.rss[:k])
+	return a.rssTailMB() - a.rssHeadMB()
+}
+
+func (a acquisition) fifth() int { return max(1, len(a.rss)/5) }
+
+func (a acquisition) rssHeadMB() float64 {
+	if len(a.rss) == 0 {
+		return nan
+	}
+	return mean(a.rss[:a.fifth()])
+}
+
+func (a acquisition) rssTailMB() float64 {
+	if len(a.rss) == 0 {
+		return nan
+	}
+	return mean(a.rss[len(a.rss)-a.fifth():])
 }
 
 func mean(v []float64) float64 {

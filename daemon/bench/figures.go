@@ -57,7 +57,9 @@ func (r *Report) Figure(name string) (Figure, bool) {
 	return Figure{}, false
 }
 
-func (r *Report) add(f Figure) {
+// Add appends f with its ratio computed as Value / Limit (NaN when
+// either is unknown or the limit is 0).
+func (r *Report) Add(f Figure) {
 	f.Ratio = ratio(f.Value, f.Limit)
 	r.Figures = append(r.Figures, f)
 }

@@ -14,8 +14,8 @@ import (
 // JSON cannot hold).
 func TestReportJSONContract(t *testing.T) {
 	var r Report
-	r.add(Figure{Name: "ingest", Value: 3e6, Unit: "samples/s", Limit: 4e6, LimitKind: LimitMeasured})
-	r.add(Figure{Name: "latency_p99", Value: nan, Unit: "ms", Limit: 100, LimitKind: LimitTarget})
+	r.Add(Figure{Name: "ingest", Value: 3e6, Unit: "samples/s", Limit: 4e6, LimitKind: LimitMeasured})
+	r.Add(Figure{Name: "latency_p99", Value: nan, Unit: "ms", Limit: 100, LimitKind: LimitTarget})
 	raw, err := json.Marshal(r)
 	if err != nil {
 		t.Fatal(err)
@@ -46,8 +46,8 @@ func TestReportJSONContract(t *testing.T) {
 
 func TestWriteTableShowsEveryFigure(t *testing.T) {
 	var r Report
-	r.add(Figure{Name: "cpu_1khz", Value: 2, Unit: "% of one core", Limit: 5, Pass: passIf(true)})
-	r.add(Figure{Name: "write_amplification", Value: 7.5, Limit: 3, Pass: passIf(false), Note: "why"})
+	r.Add(Figure{Name: "cpu_1khz", Value: 2, Unit: "% of one core", Limit: 5, Pass: passIf(true)})
+	r.Add(Figure{Name: "write_amplification", Value: 7.5, Limit: 3, Pass: passIf(false), Note: "why"})
 	var b bytes.Buffer
 	if err := r.WriteTable(&b); err != nil {
 		t.Fatal(err)
@@ -89,5 +89,20 @@ func TestPlanRefusesUnknownMode(t *testing.T) {
 		if _, err := (Options{Mode: m}).plan(); err != nil {
 			t.Errorf("mode %q: %v", m, err)
 		}
+	}
+}
+
+// Growth is the mean of the last fifth of the readings minus the mean of
+// the first fifth: of 1..10 MB, (9.5) - (1.5) = 8 MB.
+func TestRSSGrowthFromFifths(t *testing.T) {
+	a := acquisition{rss: []float64{1, 2, 3, 4, 5, 6, 7, 8, 9, 10}}
+	if g := a.rssGrowthMB(); g != 8 {
+		t.Errorf("growth %v, want 8", g)
+	}
+	if m := a.rssMaxMB(); m != 10 {
+		t.Errorf("max %v", m)
+	}
+	if g := (acquisition{rss: []float64{30}}).rssGrowthMB(); g != 0 {
+		t.Errorf("growth of one reading %v", g)
 	}
 }

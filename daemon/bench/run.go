@@ -101,10 +101,10 @@ func Run(ctx context.Context, o Options) (Report, error) {
 		ingest.Note += "; baselines " + fail("ingest baselines", berr)
 		ingest.Pass = nil
 	}
-	rep.add(ingest)
-	rep.add(Figure{Name: "ingest_direct", Unit: "samples/s", Value: direct, Limit: file, LimitKind: LimitMeasured, LimitName: "plain file appends",
+	rep.Add(ingest)
+	rep.Add(Figure{Name: "ingest_direct", Unit: "samples/s", Value: direct, Limit: file, LimitKind: LimitMeasured, LimitName: "plain file appends",
 		Note: fmt.Sprintf("store.Appender, commit every %v, same batches of %d samples", p.commitInterval, batchSamples)})
-	rep.add(Figure{Name: "ingest_file", Unit: "samples/s", Value: file, Limit: nan, LimitKind: LimitInfo, LimitName: "-",
+	rep.Add(Figure{Name: "ingest_file", Unit: "samples/s", Value: file, Limit: nan, LimitKind: LimitInfo, LimitName: "-",
 		Note: fmt.Sprintf("%d-byte rows, fsync every %v", rawBytesPerSample, p.commitInterval)})
 
 	// Data at risk: a sample waits at most one commit interval, then its
@@ -115,7 +115,7 @@ func Run(ctx context.Context, o Options) (Report, error) {
 		risk.Value = ms(p.commitInterval + worst)
 		risk.Note = fmt.Sprintf("interval + slowest of %d commits of 1000 samples (median commit %.1f ms)", len(commits), ms(commits[len(commits)/2]))
 	}
-	rep.add(risk)
+	rep.Add(risk)
 
 	// Reduction.
 	o.progress("reduce: %d samples", p.reduceSamples)
@@ -137,8 +137,8 @@ func Run(ctx context.Context, o Options) (Report, error) {
 		total.Value, total.Limit = rt.reduceS, rt.readS
 		total.Note = "what the daemon spends when a test ends: read the committed samples, then reduce them"
 	}
-	rep.add(red)
-	rep.add(total)
+	rep.Add(red)
+	rep.Add(total)
 
 	// Latency through the embedded broker, then Mosquitto.
 	o.progress("latency: embedded broker (%v)", p.latencyWindow)
@@ -222,10 +222,10 @@ func addLatency(rep *Report, suffix string, l latencies, note string) {
 	if !math.IsNaN(p99.Value) {
 		p99.Pass = passIf(p99.Value < targetLatencyP99MS)
 	}
-	rep.add(p50)
-	rep.add(p99)
+	rep.Add(p50)
+	rep.Add(p99)
 	if suffix == "" {
-		rep.add(Figure{Name: "latency_event_p99", Unit: "ms", Value: quantile(l.eventMS, 0.99), Limit: targetLatencyP99MS, LimitKind: LimitInfo, LimitName: "result target",
+		rep.Add(Figure{Name: "latency_event_p99", Unit: "ms", Value: quantile(l.eventMS, 0.99), Limit: targetLatencyP99MS, LimitKind: LimitInfo, LimitName: "result target",
 			Note: fmt.Sprintf("break sample to the break event at the subscriber (detection and transport, no reduction; median %.1f ms, %d events)", quantile(l.eventMS, 0.5), len(l.eventMS))})
 	}
 }
@@ -251,18 +251,18 @@ func addAcquisition(rep *Report, a1 acquisition, n1 string, a10 acquisition, n10
 		}
 		return def
 	}
-	rep.add(Figure{Name: "rss_idle", Unit: "MB", Value: val(ok10, a10.rssIdleMB), Limit: targetRSSMB, LimitKind: LimitTarget, LimitName: "target (acquiring)",
+	rep.Add(Figure{Name: "rss_idle", Unit: "MB", Value: val(ok10, a10.rssIdleMB), Limit: targetRSSMB, LimitKind: LimitTarget, LimitName: "target (acquiring)",
 		Note: note(n10, "daemon process, sim streaming 10 kHz, no test yet")})
-	rep.add(Figure{Name: "rss_acquiring", Unit: "MB", Value: val(ok10, a10.rssMaxMB()), Limit: targetRSSMB, LimitKind: LimitTarget, LimitName: "target",
+	rep.Add(Figure{Name: "rss_acquiring", Unit: "MB", Value: val(ok10, a10.rssMaxMB()), Limit: targetRSSMB, LimitKind: LimitTarget, LimitName: "target",
 		Target: "value < limit", Pass: pass(ok10, a10.rssMaxMB() < targetRSSMB),
 		Note: note(n10, fmt.Sprintf("largest of %d readings over %v of one test at 10 kHz (daemon process; the driver is a process of its own)", len(a10.rss), a10.window))})
-	rep.add(Figure{Name: "rss_growth", Unit: "MB", Value: val(ok10, a10.rssGrowthMB()), Limit: targetRSSGrowthMB, LimitKind: LimitTarget, LimitName: "target",
+	rep.Add(Figure{Name: "rss_growth", Unit: "MB", Value: val(ok10, a10.rssGrowthMB()), Limit: targetRSSGrowthMB, LimitKind: LimitTarget, LimitName: "target",
 		Target: "value <= limit", Pass: pass(ok10, a10.rssGrowthMB() <= targetRSSGrowthMB),
-		Note: note(n10, fmt.Sprintf("mean of the last fifth minus the first fifth of the readings over %v", a10.window))})
-	rep.add(Figure{Name: "cpu_1khz", Unit: "% of one core", Value: val(ok1, 100*a1.cpu), Limit: targetCPU1kHzPct, LimitKind: LimitTarget, LimitName: "target",
+		Note: note(n10, fmt.Sprintf("mean of the last fifth (%.1f MB) minus the first fifth (%.1f MB) of %d readings over %v", a10.rssTailMB(), a10.rssHeadMB(), len(a10.rss), a10.window))})
+	rep.Add(Figure{Name: "cpu_1khz", Unit: "% of one core", Value: val(ok1, 100*a1.cpu), Limit: targetCPU1kHzPct, LimitKind: LimitTarget, LimitName: "target",
 		Target: "value < limit", Pass: pass(ok1, 100*a1.cpu < targetCPU1kHzPct),
 		Note: note(n1, fmt.Sprintf("daemon process over %v of a test; the sim driver used %.1f %% more", a1.window, 100*a1.driverCPU))})
-	rep.add(Figure{Name: "cpu_10khz", Unit: "% of one core", Value: val(ok10, 100*a10.cpu), Limit: targetCPU1kHzPct, LimitKind: LimitInfo, LimitName: "1 kHz target",
+	rep.Add(Figure{Name: "cpu_10khz", Unit: "% of one core", Value: val(ok10, 100*a10.cpu), Limit: targetCPU1kHzPct, LimitKind: LimitInfo, LimitName: "1 kHz target",
 		Note: note(n10, fmt.Sprintf("daemon process over %v of a test; the sim driver used %.1f %% more", a10.window, 100*a10.driverCPU))})
 	wa := func(a acquisition) float64 {
 		if a.samples <= 0 {
@@ -270,10 +270,10 @@ func addAcquisition(rep *Report, a1 acquisition, n1 string, a10 acquisition, n10
 		}
 		return float64(a.writeBytes) / float64(a.samples*rawBytesPerSample)
 	}
-	rep.add(Figure{Name: "write_amplification", Unit: "bytes/raw byte", Value: val(ok10, wa(a10)), Limit: targetWriteAmpl, LimitKind: LimitTarget, LimitName: "target",
+	rep.Add(Figure{Name: "write_amplification", Unit: "bytes/raw byte", Value: val(ok10, wa(a10)), Limit: targetWriteAmpl, LimitKind: LimitTarget, LimitName: "target",
 		Target: "value <= limit", Pass: pass(ok10 && !math.IsNaN(wa(a10)), wa(a10) <= targetWriteAmpl),
 		Note: note(n10, fmt.Sprintf("10 kHz, commit every %v: %d bytes written for %d samples of %d raw bytes", interval, a10.writeBytes, a10.samples, rawBytesPerSample))})
-	rep.add(Figure{Name: "write_amplification_1khz", Unit: "bytes/raw byte", Value: val(ok1, wa(a1)), Limit: targetWriteAmpl, LimitKind: LimitTarget, LimitName: "target",
+	rep.Add(Figure{Name: "write_amplification_1khz", Unit: "bytes/raw byte", Value: val(ok1, wa(a1)), Limit: targetWriteAmpl, LimitKind: LimitTarget, LimitName: "target",
 		Target: "value <= limit", Pass: pass(ok1 && !math.IsNaN(wa(a1)), wa(a1) <= targetWriteAmpl),
 		Note: note(n1, fmt.Sprintf("1 kHz, commit every %v: %d bytes written for %d samples", interval, a1.writeBytes, a1.samples))})
 }
