@@ -32,6 +32,14 @@ func bridgeNoise(t *rapid.T, rangeN float64) detectgen.Sensor {
 	return s
 }
 
+// idleS draws the time at rest before the test: at least 30 readings,
+// from which the detector learns the noise. The daemon watches the idle
+// frame between tests; curves that start loading at once are covered by
+// the reference-curve test.
+func idleS(t *rapid.T, rateHz float64) float64 {
+	return rapid.Float64Range(math.Max(0.5, 30/rateHz), 3.5).Draw(t, "idle_s")
+}
+
 // runBatches feeds c in batches of the given size, collecting emissions.
 func runBatches(t *rapid.T, cfg Config, c reduce.Curve, batch int) ([]Emission, reduce.Detected) {
 	d, err := New(cfg)
@@ -68,7 +76,7 @@ func TestPropertyContinuous(t *testing.T) {
 		yieldN := maxN * rapid.Float64Range(0.55, 0.9).Draw(t, "yield_fraction")
 		g := detectgen.Continuous{
 			RateHz:           rateHz,
-			IdleS:            rapid.Float64Range(0.5, 3).Draw(t, "idle_s"),
+			IdleS:            idleS(t, rateHz),
 			StiffnessNPerMM:  yieldN / rapid.Float64Range(0.05, 0.5).Draw(t, "yield_ext_mm"),
 			YieldN:           yieldN,
 			MaxN:             maxN,
@@ -173,7 +181,7 @@ func TestPropertyStepped(t *testing.T) {
 		}
 		g := detectgen.Stepped{
 			RateHz:          rateHz,
-			IdleS:           rapid.Float64Range(0.5, 3).Draw(t, "idle_s"),
+			IdleS:           idleS(t, rateHz),
 			Levels:          levels,
 			StiffnessNPerMM: elN / rapid.Float64Range(1, 5).Draw(t, "elastic_ext_mm"),
 			ElasticLimitN:   elN,
