@@ -8,22 +8,22 @@ import (
 // two) cover the default 50 ms window up to 80 kHz.
 const breakRingCap = 4096
 
-// breakWatch keeps the running maxima of force, extension and crosshead
-// over the break window.
+// breakWatch keeps the running maximum of the force over the break
+// window, and the recent displacements, which are only searched when the
+// force has fallen fast (rarely), so they cost a store per sample.
 type breakWatch struct {
-	f, ext, xh maxQueue
+	f      maxQueue
+	recent recentRing
 }
 
 func (w *breakWatch) init(capacity int) {
 	w.f.init(capacity)
-	w.ext.init(capacity)
-	w.xh.init(capacity)
+	w.recent.init(capacity)
 }
 
 func (w *breakWatch) reset() {
 	w.f.reset()
-	w.ext.reset()
-	w.xh.reset()
+	w.recent.reset()
 }
 
 // watchBreak looks for a fall, within the break window, of at least
@@ -43,12 +43,10 @@ func (d *Detector) watchBreak(fs sample, rawT float64) bool {
 	}
 	from := fs.t - windowS
 	w.f.dropBefore(from)
-	w.ext.dropBefore(from)
-	w.xh.dropBefore(from)
 	if w.f.n > 0 {
 		topS, topN := w.f.at(0)
 		need := d.cfg.BreakDropFraction * (r.peakN - r.baseN)
-		if topN-fs.f >= need && !d.recovered(fs) && d.fallen(fs) {
+		if topN-fs.f >= need && d.fallen(fs) && !d.recovered(fs, from) {
 			// Date the break at the last reading still near the top of
 			// the window: the last one before the force fell.
 			atS := topS
@@ -69,8 +67,7 @@ func (d *Detector) watchBreak(fs sample, rawT float64) bool {
 		}
 	}
 	w.f.push(fs.t, fs.f)
-	w.ext.push(fs.t, fs.ext)
-	w.xh.push(fs.t, fs.xh)
+	w.recent.push(fs)
 	if fs.f > r.peakN {
 		r.peakN = fs.f
 	}
@@ -96,20 +93,18 @@ func (d *Detector) fallen(fs sample) bool {
 
 // recovered tells whether the displacement (extension, else crosshead)
 // now stands more than the set threshold below its highest reading in the
-// window: the specimen sprang back, so it is still in one piece.
-func (d *Detector) recovered(fs sample) bool {
+// window since fromS: the specimen sprang back, so it is still in one
+// piece.
+func (d *Detector) recovered(fs sample, fromS float64) bool {
 	thr := d.run.setThrMM
-	w := &d.brk
-	if finite(fs.ext) {
-		if w.ext.n == 0 {
-			return false
-		}
-		_, top := w.ext.at(0)
-		return top-fs.ext >= thr
+	useExt := finite(fs.ext)
+	if !useExt && !finite(fs.xh) {
+		return false
 	}
-	if finite(fs.xh) && w.xh.n > 0 {
-		_, top := w.xh.at(0)
-		return top-fs.xh >= thr
+	top := d.brk.recent.maxDispSince(fromS, useExt)
+	now := fs.xh
+	if useExt {
+		now = fs.ext
 	}
-	return false
+	return top-now >= thr
 }

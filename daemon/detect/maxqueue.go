@@ -1,5 +1,7 @@
 package detect
 
+import "math"
+
 // maxQueue keeps the running maximum of a value over a sliding time
 // window as a monotonic queue: amortised O(1) per sample and no
 // allocation after init. If the ring fills, the oldest entries go and the
@@ -50,4 +52,47 @@ func (q *maxQueue) dropBefore(tS float64) {
 func (q *maxQueue) at(i int) (tS, v float64) {
 	j := q.idx(i)
 	return q.t[j], q.v[j]
+}
+
+// recentRing keeps the last readings (a power-of-two count) for searches
+// that are needed only rarely.
+type recentRing struct {
+	s       []sample
+	next, n int
+	mask    int
+}
+
+func (r *recentRing) init(capacity int) {
+	r.s = make([]sample, capacity)
+	r.mask = capacity - 1
+}
+
+func (r *recentRing) reset() { r.next, r.n = 0, 0 }
+
+func (r *recentRing) push(s sample) {
+	r.s[r.next] = s
+	r.next = (r.next + 1) & r.mask
+	if r.n < len(r.s) {
+		r.n++
+	}
+}
+
+// maxDispSince is the highest extension (ext true) or crosshead reading
+// kept at or after fromS; -Inf when there is none.
+func (r *recentRing) maxDispSince(fromS float64, ext bool) float64 {
+	top := math.Inf(-1)
+	for i := 1; i <= r.n; i++ {
+		s := &r.s[(r.next-i)&r.mask]
+		if s.t < fromS {
+			break
+		}
+		v := s.xh
+		if ext {
+			v = s.ext
+		}
+		if v > top {
+			top = v
+		}
+	}
+	return top
 }
