@@ -92,6 +92,15 @@ type DetectConfig struct {
 	ForceRangeN float64 `json:"force_range_N,omitempty"`
 	// PreTriggerS is how much history before the start is stored (0: 2 s).
 	PreTriggerS float64 `json:"pretrigger_s,omitempty"`
+	// StartFraction of the force range starts a test (0: the detector's
+	// default, 1 %). Lower it on a large load cell used for small
+	// specimens (wires on a 100 kN frame), never below the noise.
+	StartFraction float64 `json:"start_fraction,omitempty"`
+	// HangerN is the weight of an empty dead-weight hanger hung after the
+	// tare: unloads return to it.
+	HangerN float64 `json:"hanger_N,omitempty"`
+	// EndHoldS is how long a test must rest unloaded to end (0: default).
+	EndHoldS float64 `json:"end_hold_s,omitempty"`
 }
 
 // StoreConfig tunes the raw store.
@@ -208,6 +217,9 @@ func (c *Config) Validate() error {
 	}
 	if c.Detect.PreTriggerS < 0 || c.Detect.PreTriggerS > 60 {
 		return bad("detect.pretrigger_s %v: must be within 0..60", c.Detect.PreTriggerS)
+	}
+	if c.Detect.StartFraction < 0 || c.Detect.StartFraction > 0.5 || c.Detect.HangerN < 0 || c.Detect.EndHoldS < 0 {
+		return bad("detect: start_fraction must be within 0..0.5, hanger_N and end_hold_s not negative")
 	}
 	if c.Detect.ForceRangeN < 0 {
 		return bad("detect.force_range_N %v: must not be negative", c.Detect.ForceRangeN)

@@ -255,7 +255,10 @@ func (d *Daemon) loop(ctx context.Context, batches <-chan driverBatch, notes <-c
 	}
 	epoch := time.Now()
 	m := newMerger(epoch.UnixNano(), d.srcs, rates, delays, int64(time.Second))
-	dcfg := detect.Config{ForceRangeN: d.forceRangeN()}
+	dcfg := detect.Config{
+		ForceRangeN: d.forceRangeN(), PreTriggerS: d.cfg.Detect.PreTriggerS,
+		StartFraction: d.cfg.Detect.StartFraction, HangerN: d.cfg.Detect.HangerN, EndHoldS: d.cfg.Detect.EndHoldS,
+	}
 	det, err := detect.New(dcfg)
 	if err != nil {
 		return fmt.Errorf("%w: detect: %w", ErrBadConfig, err)
