@@ -107,6 +107,7 @@ func printResult(w io.Writer, res reduce.Result) error {
 		}
 		fmt.Fprintln(w)
 	}
+	printSteps(w, res)
 	for _, e := range res.Events {
 		fmt.Fprintf(w, "event %-6s at %.3f s", e.Kind, e.TimeS)
 		if e.ForceN != nil {

@@ -118,7 +118,6 @@ func printPublished(w io.Writer, payload []byte) {
 	}
 	fmt.Fprintf(w, "\n== result %s (revision %d, frame %s)  %s\n", r.TestID, r.Revision, r.Frame, r.Specimen.Material)
 	printResult(w, r)
-	printSteps(w, r)
 }
 
 // printSteps shows the holds, unloads and elastic limit of a stepped test.
