@@ -61,6 +61,7 @@ func (r *reducer) reduceOne(ft finishedTest) error {
 		return err
 	}
 	res.Revision = rev
+	res.Finite()
 	doc, err := json.Marshal(res)
 	if err != nil {
 		return fmt.Errorf("encode result of %s: %w", ft.id, err)
