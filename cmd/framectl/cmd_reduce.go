@@ -54,6 +54,7 @@ func runReduce(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	if err != nil {
 		return fmt.Errorf("%s: %w", pos[0], err)
 	}
+	res.Finite()
 	if *asJSON {
 		enc := json.NewEncoder(stdout)
 		enc.SetIndent("", "  ")
