@@ -4,6 +4,7 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
+	"strings"
 	"syscall"
 	"testing"
 )
@@ -89,5 +90,31 @@ func TestParseStat(t *testing.T) {
 		if _, _, err := parseStat([]byte(bad)); !errors.Is(err, ErrNoProc) {
 			t.Errorf("parseStat(%q) = %v, want ErrNoProc", bad, err)
 		}
+	}
+}
+
+// inMemoryFS agrees with the kernel's mount table (/proc/mounts, proc(5))
+// for the root and /dev/shm, where it lists them as tmpfs or ext4.
+func TestInMemoryFSAgreesWithMounts(t *testing.T) {
+	raw, err := os.ReadFile("/proc/mounts")
+	if err != nil {
+		t.Skipf("no /proc/mounts: %v", err)
+	}
+	checked := 0
+	for line := range strings.Lines(string(raw)) {
+		f := strings.Fields(line)
+		if len(f) < 3 || (f[1] != "/" && f[1] != "/dev/shm") || (f[2] != "tmpfs" && f[2] != "ext4") {
+			continue
+		}
+		if _, err := os.Stat(f[1]); err != nil {
+			continue
+		}
+		if got := inMemoryFS(f[1]); got != (f[2] == "tmpfs") {
+			t.Errorf("%s (%s): inMemoryFS = %v", f[1], f[2], got)
+		}
+		checked++
+	}
+	if checked == 0 {
+		t.Skip("no tmpfs or ext4 mounts to check")
 	}
 }

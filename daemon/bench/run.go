@@ -53,6 +53,9 @@ func Run(ctx context.Context, o Options) (Report, error) {
 		return rep, err
 	}
 	defer os.RemoveAll(dir)
+	if inMemoryFS(dir) {
+		rep.Notes = append(rep.Notes, dir+" is on tmpfs: storage figures measure memory, and write amplification cannot be read; give --dir on the disk the state lives on")
+	}
 	var failed []error
 	phaseDir := func(name string) string {
 		d := filepath.Join(dir, name)
@@ -264,8 +267,10 @@ func addAcquisition(rep *Report, a1 acquisition, n1 string, a10 acquisition, n10
 		Note: note(n1, fmt.Sprintf("daemon process over %v of a test; the sim driver used %.1f %% more", a1.window, 100*a1.driverCPU))})
 	rep.Add(Figure{Name: "cpu_10khz", Unit: "% of one core", Value: val(ok10, 100*a10.cpu), Limit: targetCPU1kHzPct, LimitKind: LimitInfo, LimitName: "1 kHz target",
 		Note: note(n10, fmt.Sprintf("daemon process over %v of a test; the sim driver used %.1f %% more", a10.window, 100*a10.driverCPU))})
+	// No bytes written while samples were committed means the file system
+	// does not account writes to the process (tmpfs): not measured.
 	wa := func(a acquisition) float64 {
-		if a.samples <= 0 {
+		if a.samples <= 0 || a.writeBytes <= 0 {
 			return nan
 		}
 		return float64(a.writeBytes) / float64(a.samples*rawBytesPerSample)
