@@ -33,6 +33,9 @@ type reduceTiming struct {
 	reduceS  float64 // read plus reduce.Reduce, as the daemon's reducer does
 	computeS float64 // reduce.Reduce alone
 	broke    bool    // the stored test holds its break
+	// allocMB is what one read plus reduce allocates: the memory the
+	// daemon needs, at the end of a test this long, on top of its own.
+	allocMB float64
 }
 
 // measureReduce stores one long test of n samples and times, best of
@@ -96,6 +99,8 @@ func measureReduce(ctx context.Context, dir string, n int) (reduceTiming, error)
 		}
 		got = reduce.Curve{}
 		runtime.GC()
+		var ms0, ms1 runtime.MemStats
+		runtime.ReadMemStats(&ms0)
 		t0 = time.Now()
 		got, err = db.ReadSamples(id)
 		if err != nil {
@@ -107,6 +112,8 @@ func measureReduce(ctx context.Context, dir string, n int) (reduceTiming, error)
 		}
 		reduces = append(reduces, time.Since(t0).Seconds())
 		computes = append(computes, time.Since(t1).Seconds())
+		runtime.ReadMemStats(&ms1)
+		rt.allocMB = float64(ms1.TotalAlloc-ms0.TotalAlloc) / (1 << 20)
 	}
 	rt.readS, rt.reduceS, rt.computeS = slices.Min(reads), slices.Min(reduces), slices.Min(computes)
 	return rt, nil

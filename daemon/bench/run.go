@@ -142,6 +142,12 @@ func Run(ctx context.Context, o Options) (Report, error) {
 	}
 	rep.Add(red)
 	rep.Add(total)
+	memory := Figure{Name: "reduce_memory", Unit: "MB", Value: nan, Limit: nan, LimitKind: LimitInfo, LimitName: "the samples as float64"}
+	if err == nil {
+		memory.Value, memory.Limit = rt.allocMB, float64(rt.samples*rawBytesPerSample)/(1<<20)
+		memory.Note = "allocated by one read plus reduce: the daemon needs this on top of its own at the end of a test this long (it grows with the test's length there, not while acquiring)"
+	}
+	rep.Add(memory)
 
 	// Latency through the embedded broker, then Mosquitto.
 	o.progress("latency: embedded broker (%v)", p.latencyWindow)
