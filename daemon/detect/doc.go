@@ -18,7 +18,7 @@
 //   - Hold: over SettleMinS the force scatters about a line by no more
 //     than SettleNoiseK noise floors and stops drifting (a drift up to the
 //     hold band is relaxation, allowed only when the crosshead is read and
-//     stands still). Found at most 1.25 SettleMinS after settling, reported
+//     stands still). Found at most 1.5 SettleMinS after settling, reported
 //     once, then followed until the force leaves the hold band; its creep
 //     and relaxation rates are line fits over the hold.
 //   - Unload: a settled reading back at the baseline (plus HangerN) after

@@ -7,8 +7,9 @@ import (
 )
 
 // settleBlocks is how many sub-blocks the settle window is cut into: the
-// window slides by a quarter of SettleMinS, so a settled reading is found
-// at most 1.25 SettleMinS after it settled, with O(1) work per sample.
+// window slides by a quarter of SettleMinS, and two windows in a row must
+// be settled, so a settled reading is found at most 1.5 SettleMinS after
+// it settled, with O(1) work per sample.
 const settleBlocks = 4
 
 // block holds the line sums of one sub-block of the settle window.
@@ -40,6 +41,8 @@ type runState struct {
 	bandRefN   float64
 	bandStartS float64
 	prevS      float64 // the last filtered sample's time
+	// prevSettled: the previous window was settled.
+	prevSettled bool
 	// lastMoveS is how long the force took for its last move across the
 	// hold band: short for a load step or a swing, long for a slow drift.
 	lastMoveS float64
@@ -71,6 +74,7 @@ func (d *Detector) restartSettle(fs sample) {
 	r.bandRefN, r.bandStartS = fs.f, fs.t
 	r.prevS = fs.t
 	r.lastMoveS = 0
+	r.prevSettled = false
 	r.stepExtMMPerS, r.bandExtMM = math.NaN(), fs.ext
 }
 
@@ -113,7 +117,7 @@ func (d *Detector) follow(fs sample, rawT float64) {
 	}
 	r.refN += a * (fs.f - r.refN)
 	r.lastInS = fs.t
-	r.follF.add(fs.t, fs.f)
+	r.follF.add(fs.t, fs.rawF)
 	if finite(fs.ext) {
 		r.follExt.add(fs.t, fs.ext)
 	}
@@ -143,7 +147,7 @@ func (d *Detector) seek(fs sample, rawT float64) {
 		}
 		r.bandRefN, r.bandStartS, r.bandExtMM = fs.f, fs.t, fs.ext
 	}
-	r.cur.f.add(fs.t, fs.f)
+	r.cur.f.add(fs.t, fs.rawF)
 	if finite(fs.ext) {
 		r.cur.ext.add(fs.t, fs.ext)
 	}
@@ -169,7 +173,12 @@ func (d *Detector) seek(fs sample, rawT float64) {
 		w.ext.merge(&b.ext)
 		w.xh.merge(&b.xh)
 	}
-	if !d.settled(&w) {
+	// Two windows in a row, a quarter apart, must be settled: the swing
+	// stays down, and the reading reported is from the later one.
+	ok := d.settled(&w)
+	confirmed := ok && r.prevSettled
+	r.prevSettled = ok
+	if !confirmed {
 		return
 	}
 	d.onSettled(&w, fs, rawT)

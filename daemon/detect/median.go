@@ -3,6 +3,9 @@ package detect
 // sample is one reading. Ext and Xh are NaN when not read.
 type sample struct {
 	t, f, ext, xh float64
+	// rawF is the sample's own force reading, for averages and scatter:
+	// f may be a neighbour's, after the median.
+	rawF float64
 }
 
 // median3 delays the force by one sample and replaces it by the median of
@@ -28,7 +31,7 @@ func (m *median3) push(s sample) (sample, bool) {
 	// The median sample lends its force and its displacements together,
 	// so that they stay a consistent pair; the time stays the middle one.
 	out := medSample(&m.a, &m.b, &s)
-	out.t = m.b.t
+	out.t, out.rawF = m.b.t, m.b.f
 	m.a, m.b = m.b, s
 	return out, true
 }

@@ -5,43 +5,72 @@ import (
 	"slices"
 )
 
-// noiseRing is how many recent second differences the idle noise floor is
-// taken from.
+// noiseRing is how many recent differences the idle noise floor is taken
+// from.
 const noiseRing = 128
 
-// noiseEst estimates the force noise at idle from the median absolute
-// second difference of the readings. Second differences cancel a slow
-// ramp (a test beginning gently); the median ignores the few large ones
-// at the corners of a ramp or at a knock on the frame. For white noise of
-// standard deviation σ a second difference has standard deviation σ√6,
-// and its median absolute value is 0.6745 times that.
+// noiseEst estimates the force noise at idle from the first and second
+// differences of the readings. Second differences cancel a slow ramp (a
+// test beginning gently); first differences, taken about their median
+// (the ramp's pace), keep the slower part of the noise that second
+// differences miss when the noise is not white (an averaging converter).
+// Of each, the absolute values are averaged without their largest tenth,
+// which ignores the corners of a ramp or a knock on the frame, and a mean
+// rather than a median is not fooled by a coarse resolution. For white
+// noise of standard deviation σ a first difference has standard deviation
+// σ√2 and a second σ√6, and the mean of the smallest nine tenths of the
+// absolute values of a normal variable is 0.6574 times its standard
+// deviation (half-normal distribution trimmed at its 90th percentile).
+// The estimate is the larger of the two.
 type noiseEst struct {
-	ring    [noiseRing]float64
+	d1, d2  [noiseRing]float64
 	scratch [noiseRing]float64
 	n, at   int
 	sigmaN  float64
 }
 
+// trimmedHalfNormalMean is E[|Z| given |Z| < 1.645] for a standard
+// normal Z: sqrt(2/π)·(1 − exp(−1.645²/2)) / 0.9.
+const trimmedHalfNormalMean = 0.6574
+
 func (e *noiseEst) reset() { *e = noiseEst{} }
 
-func (e *noiseEst) add(d2 float64) {
-	e.ring[e.at] = math.Abs(d2)
+// add takes the first and second differences ending at a reading.
+func (e *noiseEst) add(d1, d2 float64) {
+	e.d1[e.at], e.d2[e.at] = d1, d2
 	e.at = (e.at + 1) % noiseRing
 	e.n++
-	// Recompute at every reading while the ring fills, then every
-	// 32nd: the estimate moves slowly and the sort is not free.
+	// Recompute at every reading while the rings fill, then every
+	// 32nd: the estimate moves slowly and the sorts are not free.
 	if e.n <= noiseRing || e.n%32 == 0 {
 		m := min(e.n, noiseRing)
 		s := e.scratch[:m]
-		copy(s, e.ring[:m])
+		copy(s, e.d1[:m])
 		slices.Sort(s)
-		med := s[m/2]
-		if m%2 == 0 {
-			med = (s[m/2-1] + s[m/2]) / 2
+		pace := s[m/2]
+		for i := range s {
+			s[i] = math.Abs(e.d1[i] - pace)
 		}
-		e.sigmaN = med / 0.6745 / math.Sqrt(6)
+		s1 := trimmedMeanAbs(s) / math.Sqrt2
+		for i := range s {
+			s[i] = math.Abs(e.d2[i])
+		}
+		s2 := trimmedMeanAbs(s) / math.Sqrt(6)
+		e.sigmaN = math.Max(s1, s2)
 	}
 }
 
-// count is how many second differences the estimate rests on.
+// trimmedMeanAbs sorts s (absolute values) and returns the mean of its
+// smallest nine tenths scaled to a standard deviation.
+func trimmedMeanAbs(s []float64) float64 {
+	slices.Sort(s)
+	keep := max(1, len(s)*9/10)
+	sum := 0.0
+	for _, v := range s[:keep] {
+		sum += v
+	}
+	return sum / float64(keep) / trimmedHalfNormalMean
+}
+
+// count is how many differences the estimate rests on.
 func (e *noiseEst) count() int { return min(e.n, noiseRing) }

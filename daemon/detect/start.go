@@ -50,7 +50,7 @@ func (d *Detector) learn(x sample) {
 	prevQuiet, prevQuiet2 := s.lastNear, s.lastNear2
 	s.lastNear, s.lastNear2 = quiet, prevQuiet
 	if quiet && prevQuiet && prevQuiet2 && s.n > 2 {
-		s.noise.add(x.f - 2*s.lastF + s.lastF2)
+		s.noise.add(x.f-s.lastF, x.f-2*s.lastF+s.lastF2)
 	}
 	s.lastF, s.lastF2 = x.f, s.lastF
 	// The baseline and the rest readings only from readings within six

@@ -96,7 +96,7 @@ func writeGolden(t *testing.T, dir string, gc goldenCase) {
 		SetFromN:     tr.SetFromN,
 		BreakS:       tr.FractureS,
 		BreakTolS:    0.1,
-		SettleWindow: 1.25*DefaultSettleMinS + 2/gc.rateHz,
+		SettleWindow: 1.5*DefaultSettleMinS + 2/gc.rateHz,
 	}
 	for _, h := range tr.Holds {
 		e.Holds = append(e.Holds, expHold{h.ForceN, h.ExtensionMM, h.ChangeEndS, h.SettleS, h.EndS, h.Creeping})
