@@ -15,11 +15,12 @@ const noiseRing = 128
 // (the ramp's pace), keep the slower part of the noise that second
 // differences miss when the noise is not white (an averaging converter).
 // Of each, the absolute values are averaged without their largest tenth,
-// which ignores the corners of a ramp or a knock on the frame, and a mean
+// which ignores the corners and first readings of a ramp or a knock on
+// the frame, and a mean
 // rather than a median is not fooled by a coarse resolution. For white
 // noise of standard deviation σ a first difference has standard deviation
 // σ√2 and a second σ√6, and the mean of the smallest nine tenths of the
-// absolute values of a normal variable is 0.6574 times its standard
+// absolute values of a normal variable is 0.6573 times its standard
 // deviation (half-normal distribution trimmed at its 90th percentile).
 // The estimate is the larger of the two.
 type noiseEst struct {
@@ -29,9 +30,9 @@ type noiseEst struct {
 	sigmaN  float64
 }
 
-// trimmedHalfNormalMean is E[|Z| given |Z| < 1.645] for a standard
-// normal Z: sqrt(2/π)·(1 − exp(−1.645²/2)) / 0.9.
-const trimmedHalfNormalMean = 0.6574
+// trimmedHalfNormalMean is E[|Z| given |Z| < 1.6449] for a standard
+// normal Z: sqrt(2/π)·(1 − exp(−1.6449²/2)) / 0.9.
+const trimmedHalfNormalMean = 0.6573
 
 func (e *noiseEst) reset() { *e = noiseEst{} }
 

@@ -43,10 +43,10 @@ func (d *Detector) learn(x sample) {
 	if w := d.dtS / idleTauS; a < w {
 		a = w
 	}
-	// The noise is learnt from every reading below half the start
+	// The noise is learnt from every reading below a quarter of the start
 	// threshold (see noiseEst): no gate drawn from the estimate itself
 	// can trap it too small.
-	quiet := s.n <= 3 || math.Abs(x.f-s.base) <= d.startThresholdN()/2
+	quiet := s.n <= 3 || math.Abs(x.f-s.base) <= d.startThresholdN()/4
 	prevQuiet, prevQuiet2 := s.lastNear, s.lastNear2
 	s.lastNear, s.lastNear2 = quiet, prevQuiet
 	if quiet && prevQuiet && prevQuiet2 && s.n > 2 {
