@@ -1,8 +1,6 @@
 package modbusrtu
 
 import (
-	"bytes"
-	"encoding/json"
 	"fmt"
 	"math"
 	"slices"
@@ -75,13 +73,8 @@ var standardBauds = []int{1200, 2400, 4800, 9600, 19200, 38400, 57600, 115200, 2
 // error wraps drivers.ErrBadConfig.
 func ParseConfig(data []byte) (Config, error) {
 	var c Config
-	dec := json.NewDecoder(bytes.NewReader(data))
-	dec.DisallowUnknownFields()
-	if err := dec.Decode(&c); err != nil {
-		return Config{}, fmt.Errorf("%w: modbusrtu: %v", drivers.ErrBadConfig, err)
-	}
-	if dec.More() {
-		return Config{}, fmt.Errorf("%w: modbusrtu: trailing data after the JSON object", drivers.ErrBadConfig)
+	if err := drivers.DecodeConfig("modbusrtu", data, &c); err != nil {
+		return Config{}, err
 	}
 	if err := c.normalise(); err != nil {
 		return Config{}, fmt.Errorf("%w: modbusrtu: %v", drivers.ErrBadConfig, err)

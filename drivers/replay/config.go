@@ -1,12 +1,8 @@
 package replay
 
 import (
-	"bytes"
 	_ "embed"
-	"encoding/json"
-	"errors"
 	"fmt"
-	"io"
 	"math"
 	"os"
 
@@ -77,13 +73,8 @@ type settings struct {
 // wraps drivers.ErrBadConfig.
 func parseSettings(raw []byte) (settings, error) {
 	var c Config
-	dec := json.NewDecoder(bytes.NewReader(raw))
-	dec.DisallowUnknownFields()
-	if err := dec.Decode(&c); err != nil {
-		return settings{}, fmt.Errorf("%w: replay: %w", drivers.ErrBadConfig, err)
-	}
-	if err := dec.Decode(&struct{}{}); !errors.Is(err, io.EOF) {
-		return settings{}, fmt.Errorf("%w: replay: trailing data after the JSON object", drivers.ErrBadConfig)
+	if err := drivers.DecodeConfig("replay", raw, &c); err != nil {
+		return settings{}, err
 	}
 	s, err := c.settle()
 	if err != nil {

@@ -1,12 +1,8 @@
 package sim
 
 import (
-	"bytes"
 	_ "embed"
-	"encoding/json"
-	"errors"
 	"fmt"
-	"io"
 	"math"
 
 	"framed/drivers"
@@ -86,13 +82,8 @@ func ParseConfig(raw []byte) (Config, error) {
 
 func parseSettings(raw []byte) (settings, error) {
 	var c Config
-	dec := json.NewDecoder(bytes.NewReader(raw))
-	dec.DisallowUnknownFields()
-	if err := dec.Decode(&c); err != nil {
-		return settings{}, fmt.Errorf("%w: sim: %w", drivers.ErrBadConfig, err)
-	}
-	if err := dec.Decode(&struct{}{}); !errors.Is(err, io.EOF) {
-		return settings{}, fmt.Errorf("%w: sim: trailing data after the JSON object", drivers.ErrBadConfig)
+	if err := drivers.DecodeConfig("sim", raw, &c); err != nil {
+		return settings{}, err
 	}
 	s, err := c.settle()
 	if err != nil {
