@@ -42,8 +42,9 @@ type Config struct {
 	// the settled force and extension are averaged.
 	SettleMinS float64
 	// SettleNoiseK: the reading is settled when, over SettleMinS, its
-	// scatter about a straight line is within SettleNoiseK noise floors
-	// (default 1.5): the swing has died out into the noise.
+	// scatter is within SettleNoiseK noise floors (default 1.2), widened
+	// for the chance scatter of few readings: the swing has died out
+	// into the noise.
 	SettleNoiseK float64
 	// HoldBandFraction of ForceRangeN (default 0.005, at least 8 noise
 	// floors) is the band a hold's force stays in; leaving it ends the
@@ -80,7 +81,7 @@ const (
 	DefaultPreTriggerS            = 2
 	DefaultTareToleranceFraction  = 0.01
 	DefaultSettleMinS             = 1
-	DefaultSettleNoiseK           = 1.5
+	DefaultSettleNoiseK           = 1.2
 	DefaultHoldBandFraction       = 0.005
 	DefaultHoldCrossheadMaxMMPerS = 0.002
 	DefaultBreakDropFraction      = 0.2

@@ -195,7 +195,7 @@ func (d *Detector) settled(w *block) bool {
 	if w.f.n < 8 {
 		return false
 	}
-	noise := d.cfg.SettleNoiseK * math.Max(r.sigmaN, d.noiseFloorN())
+	noise := d.cfg.SettleNoiseK * math.Max(r.sigmaN, d.noiseFloorN()) * scatterAllowance(w.f.n-1)
 	if w.f.residStd() > noise {
 		return false
 	}
@@ -286,3 +286,18 @@ func (d *Detector) finishHold(h *reduce.Hold, endS float64) {
 }
 
 func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
+
+// scatterAllowance is how far the standard deviation of k+1 readings of
+// pure noise may exceed the noise's own by chance, once in a hundred: the
+// square root of the 99th percentile of χ²(k)/k, by the Wilson–Hilferty
+// approximation (textbook statistics). About 1.53 for k = 10, 1.24 for
+// 50, 1.02 for 5000: a slow board's few readings get the room they need,
+// a fast board's many do not hide a swing.
+func scatterAllowance(k float64) float64 {
+	if k < 1 {
+		k = 1
+	}
+	const z99 = 2.326
+	c := 1 - 2/(9*k) + z99*math.Sqrt(2/(9*k))
+	return math.Sqrt(c * c * c)
+}

@@ -171,7 +171,7 @@ func TestPropertyStepped(t *testing.T) {
 		// the settle window and a margin.
 		hold := func(changeN float64) float64 {
 			settle := math.Log(math.Max(frac*changeN/noise, 1)) / decay
-			return changeS + settle + 1.5*DefaultSettleMinS + rapid.Float64Range(1.5, 3).Draw(t, "margin_s")
+			return changeS + settle + 1.5*DefaultSettleMinS + rapid.Float64Range(2, 4).Draw(t, "margin_s")
 		}
 		var levels []detectgen.Level
 		prev := 0.0
