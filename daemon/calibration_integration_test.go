@@ -32,6 +32,12 @@ func TestTareAndSpanThroughControlIntegration(t *testing.T) {
 
 	// The sim idles unloaded for its pre-test pause.
 	waitFor(t, 10*time.Second, "readings", func() bool { return status(t, socket)["readings"].(float64) > 300 })
+	// The sim stamps samples with the wall clock and sends a batch every
+	// 25 ms, so the measured transport lag is positive and well under a
+	// second.
+	if lag := driverField(status(t, socket), "lag_ms"); lag <= 0 || lag > 1000 {
+		t.Errorf("driver lag %.1f ms: want 0 < lag < 1000", lag)
+	}
 	var tare calib.Calibration
 	if err := daemon.Call(ctx, socket, daemon.Request{Op: "tare", Samples: 200}, &tare); err != nil {
 		t.Fatalf("tare: %v", err)

@@ -316,6 +316,9 @@ func (d *Daemon) loop(ctx context.Context, batches <-chan driverBatch, notes <-c
 				d.mu.Unlock()
 			}
 		case db := <-batches:
+			if n := len(db.b.TimeNS); n > 0 {
+				d.sups[db.driver].observeLag(time.Now().UnixNano() - db.b.TimeNS[n-1])
+			}
 			if db.b.GapBefore > 0 {
 				life.flag("data-gap")
 			}

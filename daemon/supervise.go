@@ -48,6 +48,12 @@ type supervisor struct {
 	health drivers.Health
 	// starts counts successful starts, for status and tests.
 	starts int
+	// lagMS follows how late a batch's last sample arrives (receipt time
+	// minus sample time, smoothed): the driver's transport and batching
+	// delay as this host sees it. Comparing two drivers' lags gives the
+	// delay_ms to configure when their boards stamp their own times.
+	lagMS float64
+	lagN  int
 }
 
 const (
@@ -184,6 +190,19 @@ func (s *supervisor) pollHealth(ctx context.Context) {
 	s.mu.Unlock()
 }
 
+// observeLag records one batch's lag in ns.
+func (s *supervisor) observeLag(ns int64) {
+	ms := float64(ns) / 1e6
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.lagN == 0 {
+		s.lagMS = ms
+	} else {
+		s.lagMS += (ms - s.lagMS) / 32 // about the last 32 batches
+	}
+	s.lagN++
+}
+
 func (s *supervisor) status() map[string]any {
 	s.mu.Lock()
 	defer s.mu.Unlock()
@@ -192,8 +211,9 @@ func (s *supervisor) status() map[string]any {
 		pid = s.proc.Pid()
 	}
 	return map[string]any{
-		"pid":  pid,
-		"name": s.cfg.Name, "kind": s.cfg.Kind, "path": s.cfg.Path,
+		"pid":    pid,
+		"lag_ms": s.lagMS,
+		"name":   s.cfg.Name, "kind": s.cfg.Kind, "path": s.cfg.Path,
 		"running": s.proc != nil, "starts": s.starts,
 		"ok": s.health.OK, "message": s.health.Message, "counters": s.health.Counters,
 	}
