@@ -27,7 +27,6 @@ func init() {
 	})
 }
 
-
 func runPlot(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs := flag.NewFlagSet("plot", flag.ContinueOnError)
 	fs.SetOutput(stderr)
