@@ -42,6 +42,10 @@ func demoSetup(cfg daemon.Config, fromFile bool) (daemon.Config, daemon.Options,
 			mu.Lock()
 			defer mu.Unlock()
 			sp := script[next%len(script)].Geometry()
+			if round := next/len(script) + 1; round > 1 {
+				// Each round of the demo tests new pieces of the same stock.
+				sp.ID = fmt.Sprintf("%s-r%d", sp.ID, round)
+			}
 			next++
 			return sp, true
 		},
