@@ -68,10 +68,6 @@ func mean(v []float64) float64 {
 // is read half way through it as the idle figure.
 const idleBeforeS = 4
 
-func measureAcquisition(ctx context.Context, self, dir string, rateHz float64, window time.Duration) (acquisition, error) {
-	return measureAcquisitionIdle(ctx, self, dir, rateHz, window, idleBeforeS)
-}
-
 func measureAcquisitionIdle(ctx context.Context, self, dir string, rateHz float64, window time.Duration, idleS float64) (acquisition, error) {
 	a := acquisition{rateHz: rateHz, window: window}
 	s, err := longSettings(rateHz, sim.PaceRealtime, idleS)

@@ -42,14 +42,16 @@ type plan struct {
 	cpu1kWindow    time.Duration
 	acq10kWindow   time.Duration // memory, CPU, writes at 10 kHz
 	commitInterval time.Duration // the daemon's default
+	idleS          float64       // sim pause before the test (rss_idle)
 }
 
 func (o Options) plan() (plan, error) {
-	p := plan{commitInterval: 100 * time.Millisecond}
+	p := plan{commitInterval: 100 * time.Millisecond, idleS: idleBeforeS}
 	switch o.Mode {
 	case ModeQuick:
 		p.ingestWindow, p.directSamples, p.reduceSamples = 2*time.Second, 500_000, 600_000
-		p.latencyWindow, p.cpu1kWindow, p.acq10kWindow = 10*time.Second, 4*time.Second, 6*time.Second
+		p.latencyWindow, p.cpu1kWindow, p.acq10kWindow = 8*time.Second, 4*time.Second, 6*time.Second
+		p.idleS = 1.5
 	case "", ModeDefault:
 		p.ingestWindow, p.directSamples, p.reduceSamples = 6*time.Second, 4_000_000, 6_000_000
 		p.latencyWindow, p.cpu1kWindow, p.acq10kWindow = 40*time.Second, 20*time.Second, 45*time.Second

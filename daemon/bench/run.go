@@ -189,12 +189,12 @@ func Run(ctx context.Context, o Options) (Report, error) {
 
 	// CPU at 1 kHz.
 	o.progress("acquire 1 kHz (%v)", p.cpu1kWindow)
-	a1, err1 := measureAcquisition(ctx, self, phaseDir("acquire-1k"), 1000, p.cpu1kWindow)
+	a1, err1 := measureAcquisitionIdle(ctx, self, phaseDir("acquire-1k"), 1000, p.cpu1kWindow, p.idleS)
 	if err := ctx.Err(); err != nil {
 		return rep, err
 	}
 	o.progress("acquire 10 kHz (%v)", p.acq10kWindow)
-	a10, err10 := measureAcquisition(ctx, self, phaseDir("acquire-10k"), 10000, p.acq10kWindow)
+	a10, err10 := measureAcquisitionIdle(ctx, self, phaseDir("acquire-10k"), 10000, p.acq10kWindow, p.idleS)
 	if err := ctx.Err(); err != nil {
 		return rep, err
 	}
