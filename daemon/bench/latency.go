@@ -55,11 +55,15 @@ func quantile(sorted []float64, q float64) float64 {
 // "embedded:ADDR", subscribing to tcp://ADDR) and times each result from
 // its break sample to its arrival at a subscriber on this process.
 func measureLatency(ctx context.Context, self, dir, broker, subscribeURL string, window time.Duration) (latencies, error) {
-	var out latencies
 	s, err := latencySettings()
 	if err != nil {
-		return out, err
+		return latencies{}, err
 	}
+	return measureLatencyWith(ctx, self, dir, broker, subscribeURL, window, s)
+}
+
+func measureLatencyWith(ctx context.Context, self, dir, broker, subscribeURL string, window time.Duration, s simSettings) (latencies, error) {
+	var out latencies
 	c, err := startChild(ctx, self, dir, daemonConfig(s, broker), window+3*time.Minute)
 	if err != nil {
 		return out, err
