@@ -15,12 +15,15 @@
 //     start is dated back to the last reading still at rest, at most
 //     PreTriggerS before the newest sample; the daemon keeps that much
 //     history. An idle reading well off zero is flagged force-not-tared.
-//   - Hold: over SettleMinS the force scatters about a line by no more
-//     than SettleNoiseK noise floors and stops drifting (a drift up to the
-//     hold band is relaxation, allowed only when the crosshead is read and
-//     stands still). Found at most 1.5 SettleMinS after settling, reported
-//     once, then followed until the force leaves the hold band; its creep
-//     and relaxation rates are line fits over the hold.
+//   - Hold: over SettleMinS, in two windows in a row, the force scatters
+//     by no more than SettleNoiseK noise floors (widened for the chance
+//     scatter of few readings) and stops drifting (a drift up to the hold
+//     band is relaxation, allowed only when the crosshead is read and
+//     stands still; without a crosshead the hold must also follow a quick
+//     load step, its extension slowed well below the step's pace). Found
+//     at most 1.5 SettleMinS after settling, reported once, then followed
+//     until the force leaves the hold band; its creep and relaxation
+//     rates are line fits over the hold.
 //   - Unload: a settled reading back at the baseline (plus HangerN) after
 //     a load; the set is the extension (else crosshead) against its reading
 //     at rest before the start. The elastic limit is bracketed between the
@@ -48,6 +51,7 @@
 // the swing carries the specimen past its elastic limit between readings.
 // A break read by an extensometer that springs back with the broken halves
 // looks like an unload until the force has rested EndHoldS (the test then
-// ends as an unload). Without a crosshead reading, a long flat top of a
-// continuous test (near Fm, or a yield plateau) could pass for a hold.
+// ends as an unload). Without a crosshead or extension reading, a flat
+// top of a continuous test reached by a quick rise (a serration, a yield
+// drop) could pass for a hold.
 package detect
