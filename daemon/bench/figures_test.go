@@ -6,6 +6,7 @@ import (
 	"math"
 	"strings"
 	"testing"
+	"time"
 )
 
 // The JSON is the contract of `framectl bench --json` (design.md):
@@ -104,5 +105,25 @@ func TestRSSGrowthFromFifths(t *testing.T) {
 	}
 	if g := (acquisition{rss: []float64{30}}).rssGrowthMB(); g != 0 {
 		t.Errorf("growth of one reading %v", g)
+	}
+}
+
+// The committed rate spans whole commits: from the first change of the
+// count inside the stretch to the last. Commits of 1000 samples every
+// 100 ms are 10 000 samples/s whatever the stretch's edges.
+func TestRateOverSpansWholeCommits(t *testing.T) {
+	t0 := time.Unix(1000, 0)
+	var pts []point
+	for i := range 30 {
+		pts = append(pts, point{t0.Add(time.Duration(i)*100*time.Millisecond + 30*time.Millisecond), 1000 * (i + 1)})
+	}
+	if r := rateOver(pts, t0, t0.Add(3*time.Second)); math.Abs(r-10000) > 1e-6 {
+		t.Errorf("rate %v, want 10000", r)
+	}
+	if r := rateOver(pts, t0.Add(time.Second), t0.Add(2*time.Second)); math.Abs(r-10000) > 1e-6 {
+		t.Errorf("rate over the middle second %v, want 10000", r)
+	}
+	if r := rateOver(pts, t0.Add(time.Second), t0.Add(1100*time.Millisecond)); !math.IsNaN(r) {
+		t.Errorf("rate from one change %v, want NaN", r)
 	}
 }
