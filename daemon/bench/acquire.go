@@ -13,8 +13,9 @@ type acquisition struct {
 	rateHz float64
 	// rssIdleMB is resident memory streaming but before any test.
 	rssIdleMB float64
-	// rss is resident memory sampled through the window, MB.
-	rss []float64
+	// rss is resident memory sampled through the window, MB; rssAnon its
+	// private part (see procSample).
+	rss, rssAnon []float64
 	// cpu is the daemon's share of one core; driverCPU its driver's.
 	cpu, driverCPU float64
 	// writeBytes the daemon wrote to disk while samples were committed.
@@ -23,37 +24,44 @@ type acquisition struct {
 	window     time.Duration
 }
 
-func (a acquisition) rssMaxMB() float64 {
+func (a acquisition) rssMaxMB() float64 { return maxOf(a.rss) }
+
+// rssGrowthMB is the mean of the last fifth of the RSS samples minus the
+// mean of the first fifth: how much memory the test's length added.
+func (a acquisition) rssGrowthMB() float64 { return growth(a.rss) }
+
+func (a acquisition) rssHeadMB() float64 { return head(a.rss) }
+func (a acquisition) rssTailMB() float64 { return tail(a.rss) }
+
+func maxOf(v []float64) float64 {
 	m := 0.0
-	for _, v := range a.rss {
-		m = max(m, v)
+	for _, x := range v {
+		m = max(m, x)
 	}
 	return m
 }
 
-// rssGrowthMB is the mean of the last fifth of the RSS samples minus the
-// mean of the first fifth: how much memory the test's length added.
-func (a acquisition) rssGrowthMB() float64 {
-	if len(a.rss) < 2 {
+func growth(v []float64) float64 {
+	if len(v) < 2 {
 		return 0
 	}
-	return a.rssTailMB() - a.rssHeadMB()
+	return tail(v) - head(v)
 }
 
-func (a acquisition) fifth() int { return max(1, len(a.rss)/5) }
+func fifth(v []float64) int { return max(1, len(v)/5) }
 
-func (a acquisition) rssHeadMB() float64 {
-	if len(a.rss) == 0 {
+func head(v []float64) float64 {
+	if len(v) == 0 {
 		return nan
 	}
-	return mean(a.rss[:a.fifth()])
+	return mean(v[:fifth(v)])
 }
 
-func (a acquisition) rssTailMB() float64 {
-	if len(a.rss) == 0 {
+func tail(v []float64) float64 {
+	if len(v) == 0 {
 		return nan
 	}
-	return mean(a.rss[len(a.rss)-a.fifth():])
+	return mean(v[len(v)-fifth(v):])
 }
 
 func mean(v []float64) float64 {
@@ -120,6 +128,7 @@ func measureAcquisitionIdle(ctx context.Context, self, dir string, rateHz float6
 			return a, err
 		}
 		a.rss = append(a.rss, float64(p.rssKB)/1024)
+		a.rssAnon = append(a.rssAnon, float64(p.rssAnonKB)/1024)
 	}
 	wall := time.Since(start).Seconds()
 	cpu1 := cpuOf(c.pid())

@@ -15,7 +15,11 @@ const clockTicksPerS = 100
 
 // procSample is one reading of a process's counters.
 type procSample struct {
-	rssKB      int64
+	rssKB int64 // VmRSS: resident, private and file-backed
+	// rssAnonKB is the private (heap, stacks) part of rssKB; the rest is
+	// file-backed: the binary's code and the store's memory map, clean
+	// pages the kernel can drop under pressure.
+	rssAnonKB  int64
 	cpuTicks   int64 // utime + stime
 	writeBytes int64 // bytes the process caused to be sent to storage
 }
@@ -27,10 +31,14 @@ func readProc(pid int) (procSample, error) {
 		return s, fmt.Errorf("%w: %w", ErrNoProc, err)
 	}
 	for line := range strings.Lines(string(status)) {
-		if rest, ok := strings.CutPrefix(line, "VmRSS:"); ok {
-			f := strings.Fields(rest)
-			if len(f) > 0 {
-				s.rssKB, _ = strconv.ParseInt(f[0], 10, 64)
+		for _, k := range []struct {
+			key string
+			dst *int64
+		}{{"VmRSS:", &s.rssKB}, {"RssAnon:", &s.rssAnonKB}} {
+			if rest, ok := strings.CutPrefix(line, k.key); ok {
+				if f := strings.Fields(rest); len(f) > 0 {
+					*k.dst, _ = strconv.ParseInt(f[0], 10, 64)
+				}
 			}
 		}
 	}

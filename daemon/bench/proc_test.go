@@ -34,6 +34,10 @@ func TestProcAgreesWithGetrusage(t *testing.T) {
 	if p.rssKB <= 0 || p.rssKB > ru.Maxrss {
 		t.Errorf("VmRSS %d KiB, want 0 < rss <= ru_maxrss %d KiB", p.rssKB, ru.Maxrss)
 	}
+	// VmRSS = RssAnon + RssFile + RssShmem (proc(5)).
+	if p.rssAnonKB <= 0 || p.rssAnonKB > p.rssKB {
+		t.Errorf("RssAnon %d KiB, want 0 < RssAnon <= VmRSS %d KiB", p.rssAnonKB, p.rssKB)
+	}
 	ruTicks := (ru.Utime.Sec+ru.Stime.Sec)*clockTicksPerS + (int64(ru.Utime.Usec)+int64(ru.Stime.Usec))*clockTicksPerS/1e6
 	if d := p.cpuTicks - ruTicks; d < -5 || d > 5 {
 		t.Errorf("utime+stime %d ticks, getrusage %d ticks (x=%g)", p.cpuTicks, ruTicks, x)
