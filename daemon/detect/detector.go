@@ -156,8 +156,8 @@ func (d *Detector) sample(s sample) {
 	if d.state == Idle {
 		d.learn(s)
 	}
-	fs, ok := d.med.push(s)
-	if !ok {
+	var fs sample
+	if !d.med.push(&s, &fs) {
 		return
 	}
 	switch d.state {

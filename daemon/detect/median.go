@@ -13,38 +13,37 @@ type sample struct {
 // start a test nor fake a break. This one-sample delay is the detector's
 // whole look-ahead (LookaheadSamples).
 type median3 struct {
+	buf  [3]sample
 	n    int
-	a, b sample // the two samples before the newest
+	a, b int // slots of the two samples before the newest, oldest first
 }
 
-// push takes the newest sample and returns the filtered previous one.
-func (m *median3) push(s sample) (sample, bool) {
+// push takes the newest sample and writes the filtered previous one to
+// out, reporting whether there was one. The samples stay in place in a
+// three-slot buffer.
+func (m *median3) push(s *sample, out *sample) bool {
 	if m.n < 2 {
-		if m.n == 0 {
-			m.b = s
-		} else {
-			m.a, m.b = m.b, s
-		}
+		m.buf[m.n] = *s
+		m.a, m.b = 0, m.n
 		m.n++
-		return sample{}, false
+		return false
 	}
+	c := 3 - m.a - m.b // the free slot
+	m.buf[c] = *s
+	x, y, z := &m.buf[m.a], &m.buf[m.b], &m.buf[c]
 	// The median sample lends its force and its displacements together,
 	// so that they stay a consistent pair; the time stays the middle one.
-	out := medSample(&m.a, &m.b, &s)
-	out.t, out.rawF = m.b.t, m.b.f
-	m.a, m.b = m.b, s
-	return out, true
-}
-
-func medSample(x, y, z *sample) sample {
-	if x.f > y.f {
-		x, y = y, x
+	// The median's value without branches (noise makes them
+	// unpredictable), then the sample that holds it.
+	medF := max(min(x.f, y.f), min(max(x.f, y.f), z.f))
+	med := z
+	if medF == y.f {
+		med = y
+	} else if medF == x.f {
+		med = x
 	}
-	if y.f > z.f {
-		y = z
-	}
-	if x.f > y.f {
-		return *x
-	}
-	return *y
+	*out = *med
+	out.t, out.rawF = y.t, y.f
+	m.a, m.b = m.b, c
+	return true
 }

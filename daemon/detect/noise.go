@@ -41,9 +41,9 @@ func (e *noiseEst) add(d1, d2 float64) {
 	e.d1[e.at], e.d2[e.at] = d1, d2
 	e.at = (e.at + 1) % noiseRing
 	e.n++
-	// Recompute at every reading while the rings fill, then every
-	// 32nd: the estimate moves slowly and the sorts are not free.
-	if e.n <= noiseRing || e.n%32 == 0 {
+	// Recompute at every 8th reading while the rings fill, then every
+	// 64th: the estimate moves slowly and the sorts are not free.
+	if (e.n <= noiseRing && e.n%8 == 1) || e.n%64 == 0 {
 		m := min(e.n, noiseRing)
 		s := e.scratch[:m]
 		copy(s, e.d1[:m])
