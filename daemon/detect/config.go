@@ -42,7 +42,7 @@ type Config struct {
 	// the settled force and extension are averaged.
 	SettleMinS float64
 	// SettleNoiseK: the reading is settled when, over SettleMinS, its
-	// scatter is within SettleNoiseK noise floors (default 1.2), widened
+	// scatter is within SettleNoiseK noise floors (default 1.3), widened
 	// for the chance scatter of few readings: the swing has died out
 	// into the noise.
 	SettleNoiseK float64
@@ -81,7 +81,7 @@ const (
 	DefaultPreTriggerS            = 2
 	DefaultTareToleranceFraction  = 0.01
 	DefaultSettleMinS             = 1
-	DefaultSettleNoiseK           = 1.2
+	DefaultSettleNoiseK           = 1.3
 	DefaultHoldBandFraction       = 0.005
 	DefaultHoldCrossheadMaxMMPerS = 0.002
 	DefaultBreakDropFraction      = 0.2

@@ -7,21 +7,22 @@ import (
 
 // noiseRing is how many recent differences the idle noise floor is taken
 // from.
-const noiseRing = 128
+const noiseRing = 512
 
 // noiseEst estimates the force noise at idle from the first and second
 // differences of the readings. Second differences cancel a slow ramp (a
 // test beginning gently); first differences, taken about their median
 // (the ramp's pace), keep the slower part of the noise that second
 // differences miss when the noise is not white (an averaging converter).
-// Of each, the absolute values are averaged without their largest tenth,
-// which ignores the corners and first readings of a ramp or a knock on
-// the frame, and a mean
+// Of each, the absolute values are averaged without their largest
+// twentieth, which ignores the corners and first readings of a ramp or a
+// knock on the frame, and a mean
 // rather than a median is not fooled by a coarse resolution. For white
 // noise of standard deviation σ a first difference has standard deviation
-// σ√2 and a second σ√6, and the mean of the smallest nine tenths of the
-// absolute values of a normal variable is 0.6573 times its standard
-// deviation (half-normal distribution trimmed at its 90th percentile).
+// σ√2 and a second σ√6, and the mean of the smallest nineteen twentieths
+// of the absolute values of a normal variable is 0.7169 times its
+// standard deviation (half-normal distribution trimmed at its 95th
+// percentile).
 // The estimate is the larger of the two.
 type noiseEst struct {
 	d1, d2  [noiseRing]float64
@@ -30,9 +31,9 @@ type noiseEst struct {
 	sigmaN  float64
 }
 
-// trimmedHalfNormalMean is E[|Z| given |Z| < 1.6449] for a standard
-// normal Z: sqrt(2/π)·(1 − exp(−1.6449²/2)) / 0.9.
-const trimmedHalfNormalMean = 0.6573
+// trimmedHalfNormalMean is E[|Z| given |Z| < 1.9600] for a standard
+// normal Z: sqrt(2/π)·(1 − exp(−1.96²/2)) / 0.95.
+const trimmedHalfNormalMean = 0.7169
 
 func (e *noiseEst) reset() { *e = noiseEst{} }
 
@@ -41,9 +42,9 @@ func (e *noiseEst) add(d1, d2 float64) {
 	e.d1[e.at], e.d2[e.at] = d1, d2
 	e.at = (e.at + 1) % noiseRing
 	e.n++
-	// Recompute at every 8th reading while the rings fill, then every
-	// 64th: the estimate moves slowly and the sorts are not free.
-	if (e.n <= noiseRing && e.n%8 == 1) || e.n%64 == 0 {
+	// Recompute at every 16th reading while the rings fill, then every
+	// 128th: the estimate moves slowly and the sorts are not free.
+	if (e.n <= noiseRing && e.n%16 == 1) || e.n%128 == 0 {
 		m := min(e.n, noiseRing)
 		s := e.scratch[:m]
 		copy(s, e.d1[:m])
@@ -62,10 +63,10 @@ func (e *noiseEst) add(d1, d2 float64) {
 }
 
 // trimmedMeanAbs sorts s (absolute values) and returns the mean of its
-// smallest nine tenths scaled to a standard deviation.
+// smallest nineteen twentieths scaled to a standard deviation.
 func trimmedMeanAbs(s []float64) float64 {
 	slices.Sort(s)
-	keep := max(1, len(s)*9/10)
+	keep := max(1, len(s)*19/20)
 	sum := 0.0
 	for _, v := range s[:keep] {
 		sum += v
