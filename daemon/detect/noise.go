@@ -42,24 +42,33 @@ func (e *noiseEst) add(d1, d2 float64) {
 	e.d1[e.at], e.d2[e.at] = d1, d2
 	e.at = (e.at + 1) % noiseRing
 	e.n++
-	// Recompute at every 16th reading while the rings fill, then every
-	// 128th: the estimate moves slowly and the sorts are not free.
-	if (e.n <= noiseRing && e.n%16 == 1) || e.n%128 == 0 {
-		m := min(e.n, noiseRing)
-		s := e.scratch[:m]
-		copy(s, e.d1[:m])
-		slices.Sort(s)
-		pace := s[m/2]
-		for i := range s {
-			s[i] = math.Abs(e.d1[i] - pace)
-		}
-		s1 := trimmedMeanAbs(s) / math.Sqrt2
-		for i := range s {
-			s[i] = math.Abs(e.d2[i])
-		}
-		s2 := trimmedMeanAbs(s) / math.Sqrt(6)
-		e.sigmaN = math.Max(s1, s2)
+	// Recompute often while the rings fill, then every 128th reading:
+	// the estimate moves slowly and the sorts are not free. The start of
+	// a test recomputes it once more (recompute).
+	if (e.n <= 64 && e.n%4 == 1) || (e.n <= noiseRing && e.n%16 == 1) || e.n%128 == 0 {
+		e.recompute()
 	}
+}
+
+// recompute takes the estimate from the differences kept.
+func (e *noiseEst) recompute() {
+	m := min(e.n, noiseRing)
+	if m == 0 {
+		return
+	}
+	s := e.scratch[:m]
+	copy(s, e.d1[:m])
+	slices.Sort(s)
+	pace := s[m/2]
+	for i := range s {
+		s[i] = math.Abs(e.d1[i] - pace)
+	}
+	s1 := trimmedMeanAbs(s) / math.Sqrt2
+	for i := range s {
+		s[i] = math.Abs(e.d2[i])
+	}
+	s2 := trimmedMeanAbs(s) / math.Sqrt(6)
+	e.sigmaN = math.Max(s1, s2)
 }
 
 // trimmedMeanAbs sorts s (absolute values) and returns the mean of its

@@ -151,6 +151,7 @@ func (d *Detector) watchStart(fs sample, rawT float64) {
 func (d *Detector) begin(fs sample, rawT float64) {
 	c := &d.cfg
 	s := &d.idle
+	s.noise.recompute() // with every idle reading up to now
 	sig := d.sigmaN()
 	r := &d.run
 	// (r.sigmaN is frozen here; the settle test still floors it by the
