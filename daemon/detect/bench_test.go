@@ -92,3 +92,31 @@ func TestStepSteadyStateAllocatesNothing(t *testing.T) {
 		t.Errorf("%.1f allocations per Step in a steady hold, want 0", allocs)
 	}
 }
+
+// BenchmarkStepIdle is the cost between tests, watching the frame at rest
+// (learning the noise, waiting for a start): the daemon's usual state.
+func BenchmarkStepIdle(b *testing.B) {
+	g := detectgen.Wire(1000, 4)
+	g.IdleS = 120
+	c, _ := g.Generate()
+	idle := c.Slice(0, int(110*g.RateHz))
+	d, err := New(Config{ForceRangeN: 1000})
+	if err != nil {
+		b.Fatal(err)
+	}
+	d.Step(idle.Slice(0, 10000)) // past the filling of the noise estimate
+	b.ReportAllocs()
+	samples, i := 0, 10000
+	for b.Loop() {
+		if i+100 > idle.Len() {
+			i = 10000
+		}
+		d.Step(idle.Slice(i, i+100))
+		samples += 100
+		i += 100
+	}
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(samples), "ns/sample")
+	if d.State() != Idle {
+		b.Fatalf("started at rest: %v", d.State())
+	}
+}

@@ -50,6 +50,8 @@ type Detector struct {
 
 	quantum     quantum
 	maxQuantumN float64
+	idleSigmaN  float64 // cached sigmaN
+	startThrN   float64 // cached startThresholdN
 
 	events  []reduce.Event
 	holds   []reduce.Hold
@@ -84,6 +86,7 @@ func (d *Detector) Reset() {
 	d.samples = 0
 	d.quantum = quantum{}
 	d.idle.reset()
+	d.updateSigma()
 	d.run = runState{}
 	d.brk.reset()
 	d.events = d.events[:0]

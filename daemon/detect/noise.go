@@ -37,17 +37,21 @@ const trimmedHalfNormalMean = 0.7169
 
 func (e *noiseEst) reset() { *e = noiseEst{} }
 
-// add takes the first and second differences ending at a reading.
-func (e *noiseEst) add(d1, d2 float64) {
+// add takes the first and second differences ending at a reading and
+// reports whether the estimate was recomputed.
+func (e *noiseEst) add(d1, d2 float64) bool {
 	e.d1[e.at], e.d2[e.at] = d1, d2
 	e.at = (e.at + 1) % noiseRing
 	e.n++
-	// Recompute often while the rings fill, then every 128th reading:
-	// the estimate moves slowly and the sorts are not free. The start of
-	// a test recomputes it once more (recompute).
-	if (e.n <= 64 && e.n%4 == 1) || (e.n <= noiseRing && e.n%16 == 1) || e.n%128 == 0 {
+	// Recompute often while the rings fill, then every 16384th reading:
+	// the estimate moves slowly, it only matters at idle for the start
+	// threshold's noise term, and the start of a test recomputes it
+	// anyway (recompute); the sorts are not free.
+	if (e.n <= 64 && e.n%4 == 1) || (e.n <= noiseRing && e.n%64 == 1) || e.n%16384 == 0 {
 		e.recompute()
+		return true
 	}
+	return false
 }
 
 // recompute takes the estimate from the differences kept.

@@ -50,12 +50,18 @@ func (d *Detector) learn(x sample) {
 	prevQuiet, prevQuiet2 := s.lastNear, s.lastNear2
 	s.lastNear, s.lastNear2 = quiet, prevQuiet
 	if quiet && prevQuiet && prevQuiet2 && s.n > 2 {
-		s.noise.add(x.f-s.lastF, x.f-2*s.lastF+s.lastF2)
+		if s.noise.add(x.f-s.lastF, x.f-2*s.lastF+s.lastF2) {
+			d.updateSigma()
+		}
 	}
 	s.lastF, s.lastF2 = x.f, s.lastF
 	// The baseline and the rest readings only from readings within six
 	// noise floors of it, so a slow ramp cannot drag them along.
-	near := s.n <= 3 || math.Abs(x.f-s.base) <= 6*math.Max(d.sigmaN(), d.quantum.stepN)
+	gate := d.idleSigmaN
+	if q := d.quantum.stepN; q > gate {
+		gate = q
+	}
+	near := s.n <= 3 || math.Abs(x.f-s.base) <= 6*gate
 	prevNear := s.lastBaseNear
 	s.lastBaseNear = near
 	if s.n == 1 {
@@ -98,25 +104,31 @@ func (d *Detector) learn(x sample) {
 }
 
 // sigmaN is the force noise floor: configured, or learnt with a floor.
-func (d *Detector) sigmaN() float64 {
-	if d.cfg.NoiseFloorN > 0 {
-		return d.cfg.NoiseFloorN
+// It is cached (updateSigma) as it is needed at every idle reading.
+func (d *Detector) sigmaN() float64 { return d.idleSigmaN }
+
+// updateSigma recomputes the cached noise floor and start threshold after
+// the noise estimate changed.
+func (d *Detector) updateSigma() {
+	c := &d.cfg
+	sig := c.NoiseFloorN
+	if sig == 0 {
+		e := &d.idle.noise
+		sig = e.sigmaN
+		if n := e.count(); n > 0 {
+			// Widen an estimate from few readings by its own
+			// uncertainty (about 1/sqrt(n) relative): a short idle
+			// period must not make the settle test too strict.
+			sig *= 1 + 2/math.Sqrt(float64(n))
+		}
+		sig = math.Max(sig, minNoiseFraction*c.ForceRangeN)
 	}
-	s := &d.idle
-	sig := s.noise.sigmaN
-	if n := s.noise.count(); n > 0 {
-		// Widen an estimate from few readings by its own uncertainty
-		// (about 1/sqrt(n) relative for a median-based one): a short
-		// idle period must not make the settle test too strict.
-		sig *= 1 + 2/math.Sqrt(float64(n))
-	}
-	return math.Max(sig, minNoiseFraction*d.cfg.ForceRangeN)
+	d.idleSigmaN = sig
+	d.startThrN = math.Max(c.StartFraction*c.ForceRangeN, c.StartNoiseK*sig)
 }
 
 // startThresholdN is how far above the baseline the force must rise.
-func (d *Detector) startThresholdN() float64 {
-	return math.Max(d.cfg.StartFraction*d.cfg.ForceRangeN, d.cfg.StartNoiseK*d.sigmaN())
-}
+func (d *Detector) startThresholdN() float64 { return d.startThrN }
 
 // quietNoiseK noise floors above the baseline is still "at rest" when
 // dating the start back: wide enough that noise on a short, poorly learnt
@@ -152,6 +164,7 @@ func (d *Detector) begin(fs sample, rawT float64) {
 	c := &d.cfg
 	s := &d.idle
 	s.noise.recompute() // with every idle reading up to now
+	d.updateSigma()
 	sig := d.sigmaN()
 	r := &d.run
 	// (r.sigmaN is frozen here; the settle test still floors it by the
