@@ -74,23 +74,28 @@ type techReading struct {
 
 // settledRead waits until n fresh readings plus a margin for the readings
 // in transit (pty, driver batch, plugin) have arrived since the load was
-// changed, then reads their mean. A read that straddles the change would
-// show a spread of thousands of counts: maxSD catches it.
+// changed, then reads their mean. A read that still straddles the change
+// (a slow machine holding more in transit) shows a spread of thousands of
+// counts, above maxSD: it waits for as many readings again and rereads.
 func settledRead(t *testing.T, socket string, n int, margin int, maxSD float64) techReading {
 	t.Helper()
-	c0 := status(t, socket)["readings"].(float64)
-	waitFor(t, 20*time.Second, "fresh readings", func() bool {
-		return status(t, socket)["readings"].(float64) >= c0+float64(n+margin)
-	})
-	ctx, cancel := context.WithTimeout(context.Background(), 10*time.Second)
-	defer cancel()
 	var r techReading
-	if err := daemon.Call(ctx, socket, daemon.Request{Op: "read", Samples: n}, &r); err != nil {
-		t.Fatalf("read: %v", err)
+	for attempt := 0; attempt < 5; attempt++ {
+		c0 := status(t, socket)["readings"].(float64)
+		waitFor(t, 20*time.Second, "fresh readings", func() bool {
+			return status(t, socket)["readings"].(float64) >= c0+float64(n+margin)
+		})
+		ctx, cancel := context.WithTimeout(context.Background(), 10*time.Second)
+		err := daemon.Call(ctx, socket, daemon.Request{Op: "read", Samples: n}, &r)
+		cancel()
+		if err != nil {
+			t.Fatalf("read: %v", err)
+		}
+		if r.RawSD <= maxSD {
+			return r
+		}
 	}
-	if r.RawSD > maxSD {
-		t.Fatalf("readings not settled: raw sd %.4g > %.4g", r.RawSD, maxSD)
-	}
+	t.Fatalf("readings not settled after 5 reads: raw sd %.4g > %.4g", r.RawSD, maxSD)
 	return r
 }
 
