@@ -34,6 +34,11 @@ func demoSetup(cfg daemon.Config, fromFile bool) (daemon.Config, daemon.Options,
 	if cfg.Detect.StartFraction == 0 {
 		cfg.Detect.StartFraction = 0.0001
 	}
+	// The wire's empty hanger is hung after the tare: its unloads return
+	// to the hanger's weight, and sets are measured from there.
+	if cfg.Detect.HangerN == 0 {
+		cfg.Detect.HangerN = sim.DemoHangerKG * sim.StandardGravity
+	}
 	script := sim.DemoScript()
 	var mu sync.Mutex
 	next := 0

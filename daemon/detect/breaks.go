@@ -93,8 +93,10 @@ func (d *Detector) fallen(fs sample) bool {
 
 // recovered tells whether the displacement (extension, else crosshead)
 // now stands more than the set threshold below its highest reading in the
-// window since fromS: the specimen sprang back, so it is still in one
-// piece.
+// window since fromS, and not beyond where the fall began: the specimen
+// sprang back, so it is still in one piece. A displacement that ran on
+// past its start (a dead-weight hanger dropping onto its stop, bouncing a
+// little) is the load let go, not a spring-back.
 func (d *Detector) recovered(fs sample, fromS float64) bool {
 	thr := d.run.setThrMM
 	useExt := finite(fs.ext)
@@ -105,6 +107,9 @@ func (d *Detector) recovered(fs sample, fromS float64) bool {
 	now := fs.xh
 	if useExt {
 		now = fs.ext
+	}
+	if start := d.brk.recent.firstDispSince(fromS, useExt); finite(start) && now-start >= thr {
+		return false
 	}
 	return top-now >= thr
 }

@@ -99,7 +99,7 @@ func (d *Detector) follow(fs sample, rawT float64) {
 		d.seek(fs, rawT)
 		return
 	}
-	if math.Abs(fs.f-r.refN) > r.holdBandN {
+	if math.Abs(fs.f-r.refN) > d.bandN(r.refN) {
 		// Two readings in a row outside the band: the load moved.
 		r.outN++
 		if r.outN >= 2 {
@@ -129,6 +129,22 @@ func (d *Detector) follow(fs sample, rawT float64) {
 	}
 }
 
+// holdLevelFraction: a hold's band is at most this fraction of the load
+// it holds (above the idle baseline), so small dead weights on a large
+// load cell still tell one step from the next: 2 % is less than any step
+// a hanger is loaded in (common practice), far more than a settled
+// reading wanders.
+const holdLevelFraction = 0.02
+
+// bandN is the hold band at a force level: HoldBandFraction of the range,
+// narrowed to holdLevelFraction of the level for small loads, never below
+// 8 noise floors (or resolution steps).
+func (d *Detector) bandN(levelN float64) float64 {
+	r := &d.run
+	b := math.Min(r.holdBandN, holdLevelFraction*math.Abs(levelN-r.baseN))
+	return math.Max(b, 8*math.Max(r.sigmaN, d.noiseFloorN()))
+}
+
 // followTauS is how fast a hold's reference follows a slow relaxation.
 const followTauS = 2
 
@@ -136,7 +152,7 @@ const followTauS = 2
 // reading has settled.
 func (d *Detector) seek(fs sample, rawT float64) {
 	r := &d.run
-	if math.Abs(fs.f-r.bandRefN) > r.holdBandN {
+	if math.Abs(fs.f-r.bandRefN) > d.bandN(r.bandRefN) {
 		r.lastMoveS = fs.t - r.bandStartS
 		if r.lastMoveS > 0 && finite(fs.ext) && finite(r.bandExtMM) {
 			// Less the extension noise (the set threshold), so that a
@@ -201,7 +217,7 @@ func (d *Detector) settled(w *block) bool {
 	}
 	drift := math.Abs(w.f.slope()) * d.cfg.SettleMinS
 	if w.xh.n >= w.f.n/2 {
-		return drift <= r.holdBandN && math.Abs(w.xh.slope()) <= d.cfg.HoldCrossheadMaxMMPerS
+		return drift <= d.bandN(w.f.mean()) && math.Abs(w.xh.slope()) <= d.cfg.HoldCrossheadMaxMMPerS
 	}
 	// Without a crosshead the force of a hold is constant: its scatter
 	// about the mean (not about a line, which could take up part of a
@@ -241,10 +257,10 @@ func (d *Detector) onSettled(w *block, fs sample, rawT float64) {
 	}
 	r.refN, r.outN, r.lastInS = level, 0, fs.t
 	r.follF, r.follExt = w.f, w.ext
-	if level-r.unloadLevelN <= r.holdBandN {
+	if level-r.unloadLevelN <= d.bandN(level) {
 		r.phase = resting
 		r.restStartS = r.bandStartS
-		if r.cyclePeakN-r.unloadLevelN > 2*r.holdBandN {
+		if r.cyclePeakN-r.unloadLevelN > d.bandN(r.cyclePeakN) {
 			d.unload(level, extMM, xhMM, fs.t, rawT)
 		}
 		r.cyclePeakN, r.cycleHasHld = level, false

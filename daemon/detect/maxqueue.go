@@ -77,6 +77,23 @@ func (r *recentRing) push(s sample) {
 	}
 }
 
+// firstDispSince is the oldest extension (ext true) or crosshead reading
+// kept at or after fromS; NaN when there is none.
+func (r *recentRing) firstDispSince(fromS float64, ext bool) float64 {
+	first := math.NaN()
+	for i := 1; i <= r.n; i++ {
+		s := &r.s[(r.next-i)&r.mask]
+		if s.t < fromS {
+			break
+		}
+		first = s.xh
+		if ext {
+			first = s.ext
+		}
+	}
+	return first
+}
+
 // maxDispSince is the highest extension (ext true) or crosshead reading
 // kept at or after fromS; -Inf when there is none.
 func (r *recentRing) maxDispSince(fromS float64, ext bool) float64 {

@@ -17,17 +17,24 @@ type idleStats struct {
 	varExt          float64
 	xhN             int
 	xhRef           float64
-	lastQuietS      float64
-	aboveSinceS     float64
-	aboveN          int
-	haveQuiet       bool
-	lastNear        bool
-	lastNear2       bool
-	lastBaseNear    bool
-	lastF2          float64
+	// hangerExtN and hangerExtRef: the extension at rest with the empty
+	// hanger on (force near base + HangerN), the reference a dead-weight
+	// test's set is measured from, since every unload returns there.
+	hangerExtN   int
+	hangerExtRef float64
+	lastQuietS   float64
+	aboveSinceS  float64
+	aboveN       int
+	haveQuiet    bool
+	lastNear     bool
+	lastNear2    bool
+	lastBaseNear bool
+	lastF2       float64
 }
 
-func (s *idleStats) reset() { *s = idleStats{extRef: math.NaN(), xhRef: math.NaN()} }
+func (s *idleStats) reset() {
+	*s = idleStats{extRef: math.NaN(), xhRef: math.NaN(), hangerExtRef: math.NaN()}
+}
 
 // idleTauS is the memory of the idle averages: long enough to average the
 // noise, short enough to follow a slow thermal drift of the zero.
@@ -68,6 +75,18 @@ func (d *Detector) learn(x sample) {
 		s.base = x.f
 	} else if near {
 		s.base += a * (x.f - s.base)
+	}
+	if d.cfg.HangerN > 0 && finite(x.ext) && s.n > 3 && math.Abs(x.f-(s.base+d.cfg.HangerN)) <= 6*gate {
+		s.hangerExtN++
+		ah := 1 / float64(s.hangerExtN)
+		if w := d.dtS / idleTauS; ah < w {
+			ah = w
+		}
+		if s.hangerExtN == 1 {
+			s.hangerExtRef = x.ext
+		} else {
+			s.hangerExtRef += ah * (x.ext - s.hangerExtRef)
+		}
 	}
 	if !near {
 		return
@@ -174,7 +193,7 @@ func (d *Detector) begin(fs sample, rawT float64) {
 		sigmaN:       sig,
 		unloadLevelN: s.base + c.HangerN,
 		holdBandN:    math.Max(c.HoldBandFraction*c.ForceRangeN, 8*sig),
-		extRef:       s.extRef,
+		extRef:       s.setRef(c.HangerN),
 		xhRef:        s.xhRef,
 		setThrMM:     c.SetThresholdMM,
 		peakN:        fs.f,
@@ -193,4 +212,13 @@ func (d *Detector) begin(fs sample, rawT float64) {
 	d.brk.reset()
 	d.restartSettle(fs)
 	d.emit(reduce.Event{Kind: reduce.EventStart, TimeS: r.startS}, rawT)
+}
+
+// setRef is the extension sets are measured from: at rest with the empty
+// hanger on when there is one and it was seen, else at rest unloaded.
+func (s *idleStats) setRef(hangerN float64) float64 {
+	if hangerN > 0 && s.hangerExtN > 0 {
+		return s.hangerExtRef
+	}
+	return s.extRef
 }

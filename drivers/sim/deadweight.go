@@ -183,12 +183,10 @@ func (r *weightRun) observe(e, fN float64) sample {
 	if r.extOff {
 		ext = math.NaN()
 	}
-	return sample{forceN: fN, extMM: ext, crossMM: r.hangerMM(total, fN)}
-}
-
-// hangerMM is the hanger's travel: specimen stretch plus load train.
-func (r *weightRun) hangerMM(e, fN float64) float64 {
-	return e*r.lcMM + fN/r.kNPerM
+	// A dead-weight rig has no crosshead: nothing drives the load, the
+	// weights hang. The crosshead channel reads nothing (NaN), so a
+	// creeping hanger is never taken for a machine still pulling.
+	return sample{forceN: fN, extMM: ext, crossMM: math.NaN()}
 }
 
 // runStep moves an overloaded specimen along its falling curve to
@@ -197,7 +195,7 @@ func (r *weightRun) runStep(dtS float64) sample {
 	r.eMax += runawayRate * dtS
 	if r.eMax >= r.c.fractureE {
 		r.broken = true
-		return sample{forceN: 0, extMM: math.NaN(), crossMM: r.hangerMM(r.c.fractureE, 0)}
+		return sample{forceN: 0, extMM: math.NaN(), crossMM: math.NaN()}
 	}
 	f := r.c.stress(r.eMax) * r.s0MM2
 	return r.observe(r.eMax, f)

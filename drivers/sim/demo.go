@@ -6,6 +6,9 @@ import "framed/reduce"
 // incoming bar, strip and wire for a small wire-and-fastener maker.
 const DemoScenario = "Ottermill Wire & Fastener Co., goods-in QA bench"
 
+// DemoHangerKG is the empty hanger of the demo's dead-weight wire test.
+const DemoHangerKG = 0.5
+
 // DemoSpeed is the time compression the demo series is timed for: each
 // loading takes 80 to 105 s of test time, 16 to 21 s on the wall clock.
 const DemoSpeed = 5
@@ -92,20 +95,28 @@ func DemoScript() []Specimen {
 				NeckPct: 30, FracturePct: 36, NeckDrop: 0.15,
 				CreepPct: 0.3, CreepTauS: 0.5,
 			},
-			// Hanger 0.5 kg; 1.5 kg stays elastic (a set of a few um), 6 kg leaves a set,
-			// 12 and 16 kg creep, 19 kg (about 186 N, above Fm of about
-			// 178 N) breaks the wire.
+			// Hanger 0.5 kg (hung after the tare: framed --demo sets
+			// hanger_N to its weight); 1.2 kg in all stays elastic (a set
+			// of about 0.6 um, below what the extensometer resolves), 3 kg
+			// leaves a set of about 0.03 mm, 6 kg more; 12 and 16 kg
+			// creep, 19 kg (about 186 N, above Fm of about 178 N) breaks
+			// the wire.
 			Loading: Loading{
 				Mode: ModeDeadWeight, StiffnessNPerMM: 5000,
-				SwingHz: 1.2, SwingZeta: 0.08, SwingFraction: 0.3,
+				SwingHz: 1.2, SwingZeta: 0.1, SwingFraction: 0.3,
+				// Each weight is left long enough for the swing to die
+				// out and the reading to be taken, as an operator would
+				// (common practice), also at the demo's time compression.
 				Steps: []WeightStep{
-					{MassKG: 0.5, HoldS: 8},
-					{MassKG: 1.5, HoldS: 12},
 					{MassKG: 0.5, HoldS: 10},
-					{MassKG: 6, HoldS: 12},
-					{MassKG: 0.5, HoldS: 10},
-					{MassKG: 12, HoldS: 12},
-					{MassKG: 16, HoldS: 15},
+					{MassKG: 1.2, HoldS: 25},
+					{MassKG: 0.5, HoldS: 20},
+					{MassKG: 3, HoldS: 25},
+					{MassKG: 0.5, HoldS: 20},
+					{MassKG: 6, HoldS: 25},
+					{MassKG: 0.5, HoldS: 20},
+					{MassKG: 12, HoldS: 25},
+					{MassKG: 16, HoldS: 25},
 					{MassKG: 19, HoldS: 10},
 				},
 			},

@@ -170,7 +170,7 @@ func TestRealtimeTimestamps(t *testing.T) {
 func TestDemoSeriesRunsThrough(t *testing.T) {
 	const rate, speed = 1000.0, 10.0
 	d := configured(t, fmt.Sprintf(`{"script": "demo", "pace": "none", "noise": 0, "pause_s": 1, "rate_hz": %v, "speed": %v}`, rate, speed))
-	cols := readSamples(t, d, 70000)
+	cols := readSamples(t, d, 120000)
 	force := cols[0]
 	// Split at the no-load stretches between tests and take each peak.
 	var peaks []float64
