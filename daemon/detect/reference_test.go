@@ -1,6 +1,7 @@
 package detect
 
 import (
+	"framed/reduce/refcurves"
 	"math"
 	"os"
 	"path/filepath"
@@ -10,10 +11,10 @@ import (
 	"framed/reduce/curvefile"
 )
 
-// refDir holds real tension tests published under CC BY 4.0: 42CrMoS4
-// (Platform MaterialDigital, Fraunhofer IWM with IWT Bremen) and S355
-// (Platform MaterialDigital / BAM, Zenodo record 6778336); see its README.
-const refDir = "/work/shared/data/reference-curves"
+// The reference folder (found by refcurves) holds real tension tests
+// published under CC BY 4.0: 42CrMoS4 (Platform MaterialDigital, Fraunhofer
+// IWM with IWT Bremen) and S355 (Platform MaterialDigital / BAM, Zenodo
+// record 6778336); see its README.
 
 func loadRef(t *testing.T, path string) reduce.Curve {
 	t.Helper()
@@ -46,6 +47,7 @@ func peakIndex(c reduce.Curve) int {
 // within the last second of the record. The upper yield point of S355 (ReH,
 // reported in its reported.csv) must not pass for a break.
 func TestReferenceCurves(t *testing.T) {
+	refDir := refcurves.Require(t)
 	files, _ := filepath.Glob(filepath.Join(refDir, "*", "*.csv"))
 	if len(files) == 0 {
 		t.Skip("reference curves not present")
