@@ -70,7 +70,7 @@ func demoBanner(w io.Writer, cfg daemon.Config, d *daemon.Daemon) {
 		broker = "tcp://" + addr
 	}
 	fmt.Fprintf(w, `
-framed demo: a simulated frame on the goods-in bench of %s
+framed demo: a simulated frame at %s
 runs its specimens over and over; each result is published on
   %s/%s/results/<test-id>  (broker %s)
 Watch them arrive in another terminal:
