@@ -3,6 +3,7 @@ package daemon
 import (
 	"encoding/json"
 	"fmt"
+	"math"
 	"time"
 
 	"framed/daemon/calib"
@@ -96,9 +97,9 @@ func (d *Daemon) tare(req Request) (any, error) {
 		n = 500
 	}
 	raw := d.recent.last(n)
-	w, err := calib.Quiet(raw, 0)
+	w, err := calib.Quiet(raw, quietLimit(raw))
 	if err != nil {
-		return nil, err
+		return nil, fmt.Errorf("tare refused, the reading was not steady (wait for the frame to be still and unloaded, then try again): %w", err)
 	}
 	// A tare keeps the span in force and only moves its zero.
 	var c calib.Calibration
@@ -163,4 +164,30 @@ func (d *Daemon) calibrationChanged() {
 	case d.calChanged <- struct{}{}:
 	default:
 	}
+}
+
+// quietLimit is the largest spread a tare window may have: six times the
+// reading's own noise, estimated from sample-to-sample differences (sd of
+// differences / sqrt 2), which a load change or drift barely moves while
+// it swells the spread about the mean. Six allows for boards that filter
+// their readings (correlated noise has smaller differences).
+func quietLimit(raw []float64) float64 {
+	var sum2 float64
+	n := 0
+	for i := 1; i < len(raw); i++ {
+		d := raw[i] - raw[i-1]
+		if d != d { // NaN: no reading
+			continue
+		}
+		sum2 += d * d
+		n++
+	}
+	if n < 2 {
+		return 0 // too few to judge; calib.Quiet refuses fewer than 2 anyway
+	}
+	noise := math.Sqrt(sum2/float64(n)) / math.Sqrt2
+	if noise == 0 {
+		return 0 // a perfectly steady reading: nothing to limit
+	}
+	return 6 * noise
 }
