@@ -16,6 +16,7 @@ import (
 	"runtime"
 	"strconv"
 	"sync"
+	"syscall"
 	"testing"
 	"text/template"
 	"time"
@@ -73,6 +74,10 @@ type Options struct {
 	Files map[string][]byte
 	// Scheme of the returned URL, default "tcp" ("ssl" for TLS listeners).
 	Scheme string
+	// Graceful makes stop end the broker with SIGTERM, as a service
+	// manager restarting it would: with persistence on, it saves its
+	// sessions and queued messages and restores them on restart.
+	Graceful bool
 }
 
 // StartMosquittoWith is StartMosquitto with extra files and URL scheme.
@@ -119,7 +124,11 @@ func StartMosquittoWith(t testing.TB, opt Options) (url string, stop func(), res
 		if cmd == nil {
 			return
 		}
-		cmd.Process.Kill()
+		if opt.Graceful {
+			cmd.Process.Signal(syscall.SIGTERM)
+		} else {
+			cmd.Process.Kill()
+		}
 		cmd.Wait()
 		cmd = nil
 	}
