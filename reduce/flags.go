@@ -27,6 +27,10 @@ const (
 	// is no line (r^2 below 0.95: holds and creep of a dead-weight record,
 	// a slipping grip); E, Rp, Ag and A from extension are not reported.
 	FlagNoElasticFit = "no-elastic-fit"
+	// FlagLoadCycles: the record loads and unloads before its maximum
+	// (a stepped dead-weight test): E, proof strengths and yield values
+	// are withheld; holds, unloads and the elastic limit carry the test.
+	FlagLoadCycles = "load-unload-cycles"
 	// FlagProofNotReached: the curve (or the extensometer record) ends
 	// before a requested proof extension.
 	FlagProofNotReached = "proof-not-reached"

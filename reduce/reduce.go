@@ -24,7 +24,12 @@ func Reduce(c Curve, sp Specimen, det Detected, opt Options) (Result, error) {
 	w.findBreak(det)
 	w.buildStrain()
 	w.noiseMPa = w.stressNoiseMPa()
-	w.fitElastic()
+	if w.hasLoadCycles() {
+		w.flag(FlagLoadCycles)
+		w.flag(FlagNoElasticFit)
+	} else {
+		w.fitElastic()
+	}
 	res := Result{
 		Schema:       SchemaVersion,
 		Specimen:     SpecimenInfo{Specimen: sp, UsedS0MM2: w.s0MM2},

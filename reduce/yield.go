@@ -12,7 +12,8 @@ import (
 // the larger of 0.5 % of that maximum and five times the stress noise,
 // before plastic strain reaches 2 % and before the maximum force (beyond
 // that a fall is necking, not yielding), from a peak above the elastic fit
-// window (below it a dip is the grips seating).
+// window (below it a dip is the grips seating), while the specimen goes on
+// extending (a fall with an elastic spring-back is an unload).
 //
 // The yield range runs from ReH until uniform work hardening starts: the
 // stress rises clear (by the same margin) above the highest stress seen in
@@ -56,6 +57,13 @@ func (w *work) yieldPoint() yieldPoint {
 			continue
 		}
 		if peak-s > marked(peak) && peak > w.fitToMPa {
+			// In a yield drop the specimen goes on extending; when the
+			// force is taken off it springs back by the drop over E. A
+			// fall with the spring-back is an unload (a load-unload cycle,
+			// weights lifted off), not yielding.
+			if xp := w.strain[iPeak]; finite(x) && finite(xp) && xp-x > 0.5*(peak-s)/e {
+				break
+			}
 			y.ok, y.iH, y.reH = true, iPeak, peak
 			break
 		}
