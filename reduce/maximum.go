@@ -51,6 +51,9 @@ func (w *work) top() topFit {
 	limit := 5 * w.noiseMPa
 	best := math.Inf(-1)
 	for i := w.first; i <= w.iBreak; i++ {
+		if !(w.stress[i] > best) {
+			continue // despiking only sets a value down: it cannot win
+		}
 		s, _ := w.despiked(i, limit)
 		if finite(s) && finite(w.strain[i]) && s > best {
 			best, t.i = s, i

@@ -21,10 +21,13 @@ func (w *work) buildStrain() {
 		}
 	}
 	hasXH := xh != nil
+	// One division, then multiplications: the loops below run over every
+	// sample of tests of millions.
+	perLe := 1 / w.leMM
 	switch {
 	case last >= 0:
 		for i := 0; i <= last; i++ {
-			w.strain[i] = ext[i] / w.leMM
+			w.strain[i] = ext[i] * perLe
 		}
 		for i := last + 1; i < w.n; i++ {
 			w.strain[i] = nan
@@ -39,10 +42,13 @@ func (w *work) buildStrain() {
 				// is void), so the crosshead motion counts in full.
 				k := w.matchSlope(last)
 				e := ext[last]
+				prev := xc(last)
 				for i := last + 1; i < w.n; i++ {
-					d := xc(i) - xc(i-1)
+					cur := xh[i] - c*f[i]
+					d := cur - prev
+					prev = cur
 					if !finite(d) {
-						w.strain[i] = e / w.leMM
+						w.strain[i] = e * perLe
 						continue
 					}
 					if i > w.iFm {
@@ -50,7 +56,7 @@ func (w *work) buildStrain() {
 					} else {
 						e += k * d
 					}
-					w.strain[i] = e / w.leMM
+					w.strain[i] = e * perLe
 				}
 			}
 		}
@@ -62,7 +68,7 @@ func (w *work) buildStrain() {
 			w.flag(FlagNoCompliance)
 		}
 		for i := range w.strain {
-			w.strain[i] = xc(i) / w.leMM
+			w.strain[i] = (xh[i] - c*f[i]) * perLe
 		}
 	default:
 		w.flag(FlagNoExtensometer)

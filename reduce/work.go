@@ -81,12 +81,13 @@ func newWork(c Curve, sp Specimen, opt Options) (*work, error) {
 	w := &work{c: c, opt: opt, sp: sp, s0MM2: s0, leMM: le, l0MM: l0, n: n, iRemoved: -1, iFm: -1}
 	w.stress = make([]float64, n)
 	fm := math.Inf(-1)
+	perS0 := 1 / s0 // one division, then a multiplication per sample
 	for i, f := range c.ForceN {
 		if !finite(f) {
 			w.stress[i] = nan
 			continue
 		}
-		w.stress[i] = f / s0
+		w.stress[i] = f * perS0
 		if f > fm {
 			fm, w.iFm = f, i
 		}
