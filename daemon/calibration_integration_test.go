@@ -1,12 +1,16 @@
 package daemon_test
 
 import (
+	"os"
+
 	"context"
 	"encoding/json"
 	"fmt"
 	"math"
 	"testing"
 	"time"
+
+	mqtt "github.com/eclipse/paho.mqtt.golang"
 
 	"framed/daemon"
 	"framed/daemon/calib"
@@ -67,6 +71,45 @@ func TestTareAndSpanThroughControlIntegration(t *testing.T) {
 	if err := daemon.Call(ctx, socket, daemon.Request{Op: "calibrations", Channel: "force"}, &list); err != nil || len(list) != 2 {
 		t.Fatalf("calibrations: %d stored, err %v; want the tare and the span", len(list), err)
 	}
+	// A verification report handed in is stored and published retained: a
+	// lab system subscribing afterwards still gets it.
+	report, err := os.ReadFile("../testdata/verify/class05-five-forces/expected.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := daemon.Call(ctx, socket, daemon.Request{Op: "verification", Calibration: report}, nil); err != nil {
+		t.Fatalf("verification: %v", err)
+	}
+	if err := daemon.Call(ctx, socket, daemon.Request{Op: "verification", Calibration: []byte(`{"not":"a report"}`)}, nil); err == nil {
+		t.Errorf("a document without points was stored as a verification")
+	}
+	late := mqtt.NewClient(mqtt.NewClientOptions().AddBroker("tcp://" + addr).SetClientID("late-lab"))
+	if tok := late.Connect(); !tok.WaitTimeout(10*time.Second) || tok.Error() != nil {
+		t.Fatalf("late subscriber: %v", tok.Error())
+	}
+	defer late.Disconnect(100)
+	got := make(chan []byte, 1)
+	late.Subscribe("framed/e2e/verification", 1, func(_ mqtt.Client, m mqtt.Message) {
+		select {
+		case got <- m.Payload():
+		default:
+		}
+	})
+	select {
+	case b := <-got:
+		var doc struct {
+			Ranges []struct {
+				Class *string `json:"class"`
+			} `json:"ranges"`
+			Frame string `json:"frame"`
+		}
+		if err := json.Unmarshal(b, &doc); err != nil || doc.Frame != "e2e" || len(doc.Ranges) == 0 || doc.Ranges[0].Class == nil || *doc.Ranges[0].Class != "0.5" {
+			t.Errorf("retained verification %s (%v)", b, err)
+		}
+	case <-time.After(10 * time.Second):
+		t.Errorf("no retained verification for a late subscriber")
+	}
+
 	select {
 	case r := <-results:
 		found := false

@@ -28,7 +28,8 @@ type Request struct {
 	Channel  string          `json:"channel,omitempty"`
 	Samples  int             `json:"samples,omitempty"`
 	Specimen json.RawMessage `json:"specimen,omitempty"`
-	// Calibration carries a span calibration to store (op "calibrate").
+	// Calibration carries a span calibration to store (op "calibrate"), or
+	// a force verification report (op "verification").
 	Calibration json.RawMessage `json:"calibration,omitempty"`
 }
 

@@ -51,6 +51,8 @@ func (d *Daemon) control(req Request) (any, error) {
 		return d.tare(req)
 	case "calibrate":
 		return d.storeCalibration(req.Calibration)
+	case "verification":
+		return d.storeVerification(req.Calibration)
 	case "calibrations":
 		return d.cal.List(req.Channel)
 	}

@@ -46,6 +46,7 @@ func runVerify(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	forces := fs.String("forces", "", "guided verification: reference forces in N, comma separated")
 	decreasing := fs.Bool("decreasing", true, "guided verification: read the decreasing run after series 3 (reversibility)")
 	state := stateFlag(fs)
+	keep := fs.Bool("store", false, "with --readings: hand the report to the running framed (--state), which stores it and publishes it on framed/<frame>/verification; a guided verification always does")
 	fs.Usage = func() {
 		fmt.Fprintln(stderr, "usage: framectl verify --readings FILE.csv --resolution-N R --zero-after-N Z [--json]")
 		fmt.Fprintln(stderr, "       framectl verify --extensometer --readings FILE.csv --resolution-mm R [--json]")
@@ -90,6 +91,7 @@ func runVerify(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	}
 	var rd []verify.Reading
 	zeroAfterN := *zeroN
+	storeIn := ""
 	if *readings != "" {
 		if given["forces"] {
 			return fmt.Errorf("%w: --forces is for a guided verification; with --readings the forces come from the file", errUsage)
@@ -122,6 +124,7 @@ func runVerify(ctx context.Context, args []string, stdout, stderr io.Writer) err
 			return err
 		}
 		rd, zeroAfterN = g.Readings, g.ZeroAfterN
+		storeIn = dir
 	}
 	r := *resN
 	if given["fluctuation-N"] {
@@ -130,6 +133,18 @@ func runVerify(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	rep, err := verify.ClassifyForce(rd, r, zeroAfterN)
 	if err != nil {
 		return err
+	}
+	if *keep && storeIn == "" {
+		if storeIn, err = stateDir(*state); err != nil {
+			return err
+		}
+	}
+	if storeIn != "" {
+		b, _ := json.Marshal(rep)
+		if err := callDaemon(ctx, storeIn, daemon.Request{Op: "verification", Calibration: b}, nil); err != nil {
+			return fmt.Errorf("the report was not stored: %w", err)
+		}
+		fmt.Fprintln(stderr, "verification stored by framed and published on its verification topic")
 	}
 	if *asJSON {
 		return writeJSON(stdout, rep)

@@ -271,6 +271,7 @@ func TestVerifyGuidedOverSocketIntegration(t *testing.T) {
 	// stand-in answers one request per connection, as daemon.Call sends
 	// them.
 	answers := []string{"1010", "1010", "1010", "1005", "0.5"}
+	stored := make(chan []byte, 1)
 	go func() {
 		for {
 			c, err := ln.Accept()
@@ -279,10 +280,14 @@ func TestVerifyGuidedOverSocketIntegration(t *testing.T) {
 			}
 			line, err := bufio.NewReader(c).ReadBytes('\n')
 			var req struct {
-				Op string `json:"op"`
+				Op          string          `json:"op"`
+				Calibration json.RawMessage `json:"calibration"`
 			}
 			if err == nil && json.Unmarshal(line, &req) == nil {
 				switch {
+				case req.Op == "verification":
+					stored <- req.Calibration
+					fmt.Fprintln(c, `{"ok":true,"data":{}}`)
 				case req.Op == "status":
 					fmt.Fprintln(c, `{"ok":true,"data":{"state":"idle"}}`)
 				case req.Op == "read" && len(answers) > 0:
@@ -310,5 +315,15 @@ func TestVerifyGuidedOverSocketIntegration(t *testing.T) {
 	// v = 100 (1005 - 1010) / 1000 = -0.5 %; f0 = 100 x 0.5 / 1000 = 0.05 %.
 	if p := rep.Points[0]; p.Class != verify.Class1 || math.Abs(*p.QPct-1) > 1e-9 || math.Abs(*p.VPct+0.5) > 1e-9 || math.Abs(rep.F0Pct-0.05) > 1e-9 {
 		t.Errorf("report %+v", rep)
+	}
+	// A guided verification hands its report to framed to store and publish.
+	select {
+	case b := <-stored:
+		var got verify.ForceReport
+		if err := json.Unmarshal(b, &got); err != nil || len(got.Points) != 1 || got.Points[0].Class != verify.Class1 {
+			t.Errorf("stored report %s (%v)", b, err)
+		}
+	default:
+		t.Errorf("the guided verification's report was not handed to framed")
 	}
 }

@@ -35,6 +35,7 @@ type Publisher struct {
 	closing atomic.Bool
 
 	mu      sync.Mutex
+	verif   lastVerification
 	started bool
 	up      chan struct{} // closed while connected
 	lost    chan struct{} // closed when the current connection is lost
@@ -174,6 +175,7 @@ func (p *Publisher) onConnect(c mqtt.Client) {
 	p.mu.Unlock()
 	if !p.closing.Load() {
 		c.Publish(p.topics.status, 1, true, p.statusPayload("online", time.Now()))
+		p.resendVerification()
 	}
 	if len(p.cfg.Commands) > 0 {
 		c.Subscribe(p.topics.commands, 1, p.onCommand)

@@ -7,7 +7,7 @@ import (
 
 // topics are the contract's topic names for one frame.
 type topics struct {
-	status, events, live, specimens, commands, resultsPrefix string
+	status, events, live, specimens, commands, verification, resultsPrefix string
 }
 
 func newTopics(root, frame string) topics {
@@ -18,6 +18,7 @@ func newTopics(root, frame string) topics {
 		live:          base + "live",
 		specimens:     base + "specimens",
 		commands:      base + "commands",
+		verification:  base + "verification",
 		resultsPrefix: base + "results/",
 	}
 }
