@@ -73,6 +73,6 @@ func usage(w io.Writer) {
 	}
 	sort.Strings(names)
 	for _, n := range names {
-		fmt.Fprintf(w, "  %-10s %s\n", n, commands[n].summary)
+		fmt.Fprintf(w, "  %-13s %s\n", n, commands[n].summary)
 	}
 }
